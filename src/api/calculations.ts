@@ -1,0 +1,36 @@
+/** Creating and reading frozen calculations. */
+import { Hono } from "hono";
+import type { Env } from "../env.js";
+import { ID_PATTERN } from "../store/record.js";
+import { RecordStore } from "../store/recordStore.js";
+import { requireDesign } from "./designs.js";
+import { ProblemError } from "./problem.js";
+import { freezeCalculation, loadRecord } from "./service.js";
+import { parseCalculationRequest, readBoundedText } from "./validation.js";
+
+export function requireId(id: string): string {
+  if (!ID_PATTERN.test(id)) {
+    throw new ProblemError(404, "unknown-calculation", "No such calculation",
+      `${JSON.stringify(id.slice(0, 80))} is not a calculation id (ids look like c_ followed by 32 hexadecimal digits).`);
+  }
+  return id;
+}
+
+export const createRouter = new Hono<{ Bindings: Env }>().post("/:design/calculations", async (c) => {
+  const design = requireDesign(c.req.param("design"));
+  const type = c.req.header("content-type") ?? "";
+  if (type && !/^application\/(.+\+)?json\b/i.test(type)) {
+    throw new ProblemError(415, "unsupported-media-type", "Send JSON", "The request body must be application/json.");
+  }
+  const text = await readBoundedText(c.req.raw);
+  const { inputs, label } = parseCalculationRequest(design, text);
+  const { created, record } = await freezeCalculation(new RecordStore(c.env.CALCULATIONS), design, inputs, label);
+  c.header("Location", `/api/v1/calculations/${record.id}`);
+  c.header("Link", `</c/${record.id}>; rel="alternate"; type="text/html"`);
+  return c.json(record, created ? 201 : 200);
+});
+
+export const readRouter = new Hono<{ Bindings: Env }>().get("/:id", async (c) => {
+  const record = await loadRecord(new RecordStore(c.env.CALCULATIONS), requireId(c.req.param("id")));
+  return c.json(record);
+});

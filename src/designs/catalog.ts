@@ -1,0 +1,13 @@
+/** The catalog: every design the service computes. Adding a design is one line here. */
+import type { AnyDesign } from "./design.js";
+import { twoMeans } from "./twoMeans.js";
+
+export const catalog: readonly AnyDesign[] = [
+  twoMeans,
+];
+
+const byId = new Map(catalog.map((d) => [d.id, d]));
+
+export function findDesign(id: string): AnyDesign | undefined {
+  return byId.get(id);
+}

@@ -1,0 +1,58 @@
+/**
+ * The contract every design in the catalog fulfils. One design, one file;
+ * catalog.ts lists them.
+ */
+import type { ZodType } from "zod";
+import type { Section } from "../report/document.js";
+
+export type Stage = "dose-finding" | "activity" | "comparative" | "monitoring";
+
+export interface Citation {
+  /** Short key, as used in the report: "Lenth 1989". */
+  key: string;
+  /** Full reference: authors, year, title, journal, volume, pages. */
+  text: string;
+  doi?: string;
+}
+
+export interface Design<I = unknown, R = unknown> {
+  /** url-safe, the method's usual name: "simon-two-stage" */
+  id: string;
+  /** Bump when the same inputs could give a different result. */
+  version: number;
+  stage: Stage;
+  title: string;
+  /** One sentence for the catalog page. */
+  summary: string;
+  /** Bounds, defaults and a description on every field; strict (unknown fields rejected). */
+  input: ZodType<I>;
+  /** A scenario of our own. */
+  example: I;
+  /** Pure and deterministic; simulations take a seed. Throws InfeasibleDesignError. */
+  compute(input: I): R;
+  /** The clinical question in plain words, filled in from the inputs. */
+  question(input: I): string;
+  /** What the report shows, after the question and inputs. */
+  document(input: I, result: R): Section[];
+  references: Citation[];
+  cautions: string[];
+}
+
+/** Valid inputs for which no design meets the constraints within the bounds (HTTP 422). */
+export class InfeasibleDesignError extends Error {
+  constructor(
+    message: string,
+    readonly details: Record<string, unknown> = {},
+  ) {
+    super(message);
+    this.name = "InfeasibleDesignError";
+  }
+}
+
+/** Erases the type parameters for the catalog. */
+// eslint-disable-next-line @typescript-eslint/no-explicit-any
+export type AnyDesign = Design<any, any>;
+
+export function defineDesign<I, R>(design: Design<I, R>): Design<I, R> {
+  return design;
+}

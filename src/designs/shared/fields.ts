@@ -1,0 +1,17 @@
+/** Input fields with the same meaning across comparative designs: one definition each. */
+import { z } from "zod";
+
+export const probabilityField = (description: string) => z.number().gt(0).lt(1).describe(description);
+
+export const comparativeCommonFields = {
+  alpha: z.number().gt(0).max(0.5).default(0.05)
+    .describe("Type I error rate: the probability of declaring a difference when there is none (for a two-sided test, split between the two tails)."),
+  power: z.number().gt(0).lt(1).default(0.8)
+    .describe("Target probability of a positive result when the assumed effect is true (1 - beta)."),
+  sides: z.union([z.literal(1), z.literal(2)]).optional()
+    .describe("1 for a one-sided test, 2 for two-sided. Superiority defaults to 2; non-inferiority and equivalence are one-sided."),
+  allocationRatio: z.number().min(0.1).max(10).default(1)
+    .describe("Allocation ratio n2/n1: experimental-arm participants per control-arm participant."),
+  dropout: z.number().min(0).max(0.9).default(0)
+    .describe("Fraction of enrolled participants expected to be lost (0.1 is 10%); enrolment is inflated to n/(1 - dropout) per arm."),
+};

@@ -1,0 +1,337 @@
+/**
+ * Two means: a parallel-group comparison of a continuous outcome.
+ *
+ * Method: the two-sample t test with a common standard deviation σ. Exact power
+ * from the noncentral t distribution (AS 243, Lenth 1989):
+ *   superiority, two-sided:  P(T' > t_{1-α/2}) + P(T' < -t_{1-α/2})  (both tails counted)
+ *   superiority, one-sided:  P(T' > t_{1-α})
+ *   non-inferiority:         P(T' > t_{1-α}) with noncentrality (δ + margin)/SE
+ * with T' noncentral t on n1 + n2 - 2 degrees of freedom and noncentrality δ/SE,
+ * SE = σ √(1/n1 + 1/n2). Equivalence by two one-sided tests (Schuirmann 1987):
+ * exact power by integrating the normal probability of the rejection region over
+ * the distribution of the sample standard deviation (Owen 1965). The normal
+ * method replaces t and T' by the standard normal.
+ *
+ * Conventions: δ is experimental minus control, oriented so that positive favours
+ * the experimental arm; non-inferiority and equivalence tests are one-sided at
+ * level α each; sample sizes are the smallest integers meeting the target power.
+ */
+import { z } from "zod";
+import { type Design, InfeasibleDesignError } from "./design.js";
+import type { Section } from "../report/document.js";
+import { normalCdf, normalQuantile } from "../stats/normal.js";
+import { studentTQuantile } from "../stats/studentT.js";
+import { noncentralTCdf, noncentralTSurvival } from "../stats/noncentralT.js";
+import { integrate } from "../stats/quadrature.js";
+import { logGamma } from "../stats/gamma.js";
+import {
+  type ArmSizes, armsFromControl, detectableEffect, inflateForDropout, powerCurve, smallestSampleSize,
+} from "./shared/sizing.js";
+import { comparativeCommonFields } from "./shared/fields.js";
+
+const MAX_PER_ARM = 100000;
+
+const schema = z
+  .strictObject({
+    solveFor: z.enum(["sample-size", "power", "difference"]).default("sample-size")
+      .describe("What to compute: the sample size for a target power, the power at given arm sizes, or the smallest difference detectable at given arm sizes."),
+    hypothesis: z.enum(["superiority", "non-inferiority", "equivalence"]).default("superiority")
+      .describe("Superiority: the arms differ. Non-inferiority: the experimental arm is not worse than control by more than the margin. Equivalence: the arms differ by less than the margin (two one-sided tests)."),
+    delta: z.number().min(-1e9).max(1e9).optional()
+      .describe("Expected true difference in means, experimental minus control, in outcome units; positive favours the experimental arm. Not needed when solving for the difference."),
+    sd: z.number().gt(0).max(1e9).describe("Common standard deviation of the outcome in each arm, in outcome units."),
+    margin: z.number().gt(0).max(1e9).optional()
+      .describe("Non-inferiority or equivalence margin, in outcome units, entered as a positive number."),
+    method: z.enum(["exact-t", "normal"]).default("exact-t")
+      .describe("exact-t: power from the noncentral t distribution (the t test that will be run). normal: the large-sample normal approximation."),
+    ...comparativeCommonFields,
+    n1: z.number().int().min(2).max(MAX_PER_ARM).optional().describe("Control-arm size, when solving for power or for the difference."),
+    n2: z.number().int().min(2).max(MAX_PER_ARM).optional().describe("Experimental-arm size, when solving for power or for the difference."),
+  })
+  .superRefine((v, ctx) => {
+    const issue = (path: string, message: string): void => ctx.addIssue({ code: "custom", path: [path], message });
+    if (v.solveFor !== "difference" && v.delta === undefined) issue("delta", "Give the difference in means you expect (experimental minus control).");
+    if (v.solveFor !== "sample-size") {
+      if (v.n1 === undefined) issue("n1", "Give the control-arm size when solving for power or for the difference.");
+      if (v.n2 === undefined) issue("n2", "Give the experimental-arm size when solving for power or for the difference.");
+    }
+    if (v.hypothesis !== "superiority") {
+      if (v.margin === undefined) issue("margin", `A ${v.hypothesis} design needs a margin (a positive number in outcome units).`);
+      if (v.sides === 2) issue("sides", `A ${v.hypothesis} test is one-sided at level alpha: set sides to 1 (a one-sided 0.025 matches a two-sided 0.05).`);
+    }
+    if (v.solveFor !== "difference" && v.delta !== undefined) {
+      if (v.hypothesis === "superiority" && v.delta === 0) issue("delta", "A superiority design needs a non-zero difference to detect.");
+      if (v.hypothesis === "superiority" && v.sides === 1 && v.delta < 0) issue("delta", "A one-sided test looks for benefit: enter the difference so that positive favours the experimental arm.");
+      if (v.hypothesis === "non-inferiority" && v.margin !== undefined && v.delta <= -v.margin) issue("delta", "The expected difference is already beyond the non-inferiority margin; no sample size can show non-inferiority.");
+      if (v.hypothesis === "equivalence" && v.margin !== undefined && Math.abs(v.delta) >= v.margin) issue("delta", "The expected difference must lie inside the equivalence margin.");
+    }
+    if (v.power <= v.alpha) issue("power", "Power must exceed alpha: a test that rejects no more often than chance is not a test.");
+  })
+  .transform((v) => ({ ...v, sides: v.sides ?? (v.hypothesis === "superiority" ? 2 : 1) }));
+
+export type TwoMeansInput = z.output<typeof schema>;
+
+export interface TwoMeansResult {
+  n1: number;
+  n2: number;
+  total: number;
+  enrolled1: number;
+  enrolled2: number;
+  enrolledTotal: number;
+  power: number;
+  /** The difference used for the power (the solved one when solving for the difference). */
+  delta: number;
+  standardizedEffect: number;
+  criticalValue: number;
+  degreesOfFreedom: number | null;
+  powerCurve: Array<[number, number]>;
+}
+
+function standardError(input: TwoMeansInput, arms: ArmSizes): number {
+  return input.sd * Math.sqrt(1 / arms.n1 + 1 / arms.n2);
+}
+
+/** Exact TOST power: integrate over W = df·S²/σ² ~ χ²_df (Owen 1965). */
+function equivalencePowerExact(delta: number, margin: number, se: number, tCrit: number, df: number): number {
+  const a = (margin - delta) / se;
+  const b = (-margin - delta) / se;
+  const inner = (u: number): number => Math.max(0, normalCdf(a - tCrit * u) - normalCdf(b + tCrit * u));
+  const logNorm = (df / 2) * Math.log(2) + logGamma(df / 2);
+  const density = (w: number): number => (w <= 0 ? 0 : Math.exp((df / 2 - 1) * Math.log(w) - w / 2 - logNorm));
+  const upper = Math.min(df * ((margin / (tCrit * se)) ** 2), df + 60 * Math.sqrt(2 * df) + 60);
+  const lower = Math.max(0, df - 60 * Math.sqrt(2 * df));
+  if (upper <= lower) return 0;
+  return integrate((w) => inner(Math.sqrt(w / df)) * density(w), lower, upper, { absoluteTolerance: 1e-13, relativeTolerance: 1e-11 });
+}
+
+/** Power at given arm sizes and true difference. */
+export function twoMeansPower(input: TwoMeansInput, arms: ArmSizes, delta: number): number {
+  const se = standardError(input, arms);
+  const df = arms.n1 + arms.n2 - 2;
+  const exact = input.method === "exact-t";
+  const crit = (p: number): number => (exact ? studentTQuantile(p, df) : normalQuantile(p));
+  const upperTail = (c: number, ncp: number): number => (exact ? noncentralTSurvival(c, df, ncp) : normalCdf(ncp - c));
+  const lowerTail = (c: number, ncp: number): number => (exact ? noncentralTCdf(c, df, ncp) : normalCdf(c - ncp));
+  switch (input.hypothesis) {
+    case "superiority": {
+      const ncp = delta / se;
+      if (input.sides === 2) {
+        const c = crit(1 - input.alpha / 2);
+        return upperTail(c, ncp) + lowerTail(-c, ncp);
+      }
+      return upperTail(crit(1 - input.alpha), ncp);
+    }
+    case "non-inferiority":
+      return upperTail(crit(1 - input.alpha), (delta + input.margin!) / se);
+    case "equivalence": {
+      const c = crit(1 - input.alpha);
+      const m = input.margin!;
+      if (exact) return equivalencePowerExact(delta, m, se, c, df);
+      return Math.max(0, normalCdf((m - delta) / se - c) + normalCdf((m + delta) / se - c) - 1);
+    }
+  }
+}
+
+function criticalValue(input: TwoMeansInput, df: number): number {
+  const p = input.hypothesis === "superiority" && input.sides === 2 ? 1 - input.alpha / 2 : 1 - input.alpha;
+  return input.method === "exact-t" ? studentTQuantile(p, df) : normalQuantile(p);
+}
+
+export function computeTwoMeans(input: TwoMeansInput): TwoMeansResult {
+  let arms: ArmSizes;
+  let delta: number;
+  if (input.solveFor === "sample-size") {
+    delta = input.delta!;
+    arms = smallestSampleSize({
+      powerAt: (a) => twoMeansPower(input, a, delta),
+      target: input.power,
+      allocationRatio: input.allocationRatio,
+      minimum: 2,
+      maximum: MAX_PER_ARM,
+    });
+  } else {
+    arms = { n1: input.n1!, n2: input.n2! };
+    if (input.solveFor === "difference") {
+      delta = solveDifference(input, arms);
+    } else {
+      delta = input.delta!;
+    }
+  }
+  const power = twoMeansPower(input, arms, delta);
+  const df = arms.n1 + arms.n2 - 2;
+  const enrolled1 = inflateForDropout(arms.n1, input.dropout);
+  const enrolled2 = inflateForDropout(arms.n2, input.dropout);
+  const ratio = arms.n2 / arms.n1;
+  return {
+    n1: arms.n1,
+    n2: arms.n2,
+    total: arms.n1 + arms.n2,
+    enrolled1,
+    enrolled2,
+    enrolledTotal: enrolled1 + enrolled2,
+    power,
+    delta,
+    standardizedEffect: delta / input.sd,
+    criticalValue: criticalValue(input, df),
+    degreesOfFreedom: input.method === "exact-t" ? df : null,
+    powerCurve: powerCurve(arms.n1, ratio, 2, (a) => twoMeansPower(input, a, delta)),
+  };
+}
+
+/** Smallest favourable difference with power ≥ target at the given sizes. */
+function solveDifference(input: TwoMeansInput, arms: ArmSizes): number {
+  const target = input.power;
+  const ceiling = 50 * input.sd * Math.sqrt(1 / arms.n1 + 1 / arms.n2) + (input.margin ?? 0);
+  if (input.hypothesis === "equivalence") {
+    // The largest |δ| inside the margin still shown equivalent with the target power.
+    const m = input.margin!;
+    const powerAtZero = twoMeansPower(input, arms, 0);
+    if (powerAtZero < target) {
+      throw new InfeasibleDesignError(`Even with no true difference, these arm sizes give power ${powerAtZero.toFixed(3)} to show equivalence, below the target ${target}.`, { field: "n1" });
+    }
+    return m - detectableEffect((e) => twoMeansPower(input, arms, m - e), target, 0, m);
+  }
+  const lo = input.hypothesis === "non-inferiority" ? -input.margin! : 0;
+  return detectableEffect((e) => twoMeansPower(input, arms, e), target, lo, ceiling);
+}
+
+const fmt = (x: number, d = 3): string => x.toFixed(d);
+
+function describeHypothesis(input: TwoMeansInput): string {
+  switch (input.hypothesis) {
+    case "superiority":
+      return input.sides === 2
+        ? `a two-sided test at level α = ${input.alpha}`
+        : `a one-sided test at level α = ${input.alpha}`;
+    case "non-inferiority":
+      return `a one-sided test of non-inferiority with margin ${input.margin} at level α = ${input.alpha}`;
+    case "equivalence":
+      return `two one-sided tests of equivalence with margin ±${input.margin}, each at level α = ${input.alpha}`;
+  }
+}
+
+function documentTwoMeans(input: TwoMeansInput, r: TwoMeansResult): Section[] {
+  const methodName = input.method === "exact-t" ? "the two-sample t test (exact power from the noncentral t distribution)" : "the normal approximation to the two-sample test";
+  const dropoutText = input.dropout > 0
+    ? ` Allowing for ${(input.dropout * 100).toFixed(1)}% loss to follow-up, ${r.enrolledTotal} participants will be enrolled (${r.enrolled1} control, ${r.enrolled2} experimental).`
+    : "";
+  const protocol = input.solveFor === "difference"
+    ? `With ${r.n1} participants in the control arm and ${r.n2} in the experimental arm, ${describeHypothesis(input)} based on ${methodName} has ${fmt(input.power * 100, 0)}% power to detect a difference in means of ${fmt(r.delta, 3)} (${fmt(r.standardizedEffect, 3)} standard deviations), assuming a common standard deviation of ${input.sd}.${dropoutText}`
+    : input.solveFor === "power"
+      ? `With ${r.n1} participants in the control arm and ${r.n2} in the experimental arm, ${describeHypothesis(input)} based on ${methodName} has ${fmt(r.power * 100, 1)}% power when the true difference in means is ${r.delta} and the common standard deviation is ${input.sd}.${dropoutText}`
+      : `A sample size of ${r.n1} in the control arm and ${r.n2} in the experimental arm (${r.total} in total) gives ${fmt(r.power * 100, 1)}% power (target ${fmt(input.power * 100, 0)}%) to detect a difference in means of ${r.delta} (${fmt(r.standardizedEffect, 3)} standard deviations, common standard deviation ${input.sd}), using ${describeHypothesis(input)} based on ${methodName}.${dropoutText}`;
+  return [
+    {
+      id: "design",
+      title: "Design",
+      blocks: [
+        {
+          kind: "facts",
+          facts: [
+            { label: "Control arm (n1)", value: r.n1, key: true },
+            { label: "Experimental arm (n2)", value: r.n2, key: true },
+            { label: "Total evaluable", value: r.total, key: true },
+            { label: "Total to enrol after dropout", value: r.enrolledTotal, key: true },
+            { label: "Achieved power", value: r.power, digits: 4, key: true },
+            { label: "Difference in means", value: r.delta, digits: 4 },
+            { label: "Standardized effect (δ/σ)", value: r.standardizedEffect, digits: 4 },
+            { label: "Critical value", value: r.criticalValue, digits: 4, note: input.method === "exact-t" ? `t on ${r.degreesOfFreedom} degrees of freedom` : "standard normal" },
+          ],
+        },
+        {
+          kind: "table",
+          table: {
+            id: "arms",
+            caption: "Participants per arm",
+            columns: [
+              { key: "arm", label: "Arm" },
+              { key: "evaluable", label: "Evaluable" },
+              { key: "enrolled", label: "To enrol" },
+            ],
+            rows: [
+              ["Control", r.n1, r.enrolled1],
+              ["Experimental", r.n2, r.enrolled2],
+              ["Total", r.total, r.enrolledTotal],
+            ],
+          },
+        },
+      ],
+    },
+    {
+      id: "operating-characteristics",
+      title: "Power against sample size",
+      blocks: [
+        {
+          kind: "chart",
+          chart: {
+            id: "power-curve",
+            title: `Power against total sample size (difference ${fmt(r.delta, 3)}, SD ${input.sd})`,
+            xLabel: "Total evaluable participants",
+            yLabel: "Power",
+            yDomain: [0, 1],
+            series: [{ name: "Power", points: r.powerCurve, style: "line" }],
+            markers: [
+              { axis: "y", value: input.power, label: `target ${input.power}` },
+              { axis: "x", value: r.total, label: `n = ${r.total}` },
+            ],
+          },
+        },
+        {
+          kind: "table",
+          table: {
+            id: "power-curve",
+            caption: "Power at other sample sizes",
+            columns: [
+              { key: "total", label: "Total evaluable" },
+              { key: "power", label: "Power", digits: 4 },
+            ],
+            rows: r.powerCurve.map(([n, p]) => [n, p]),
+          },
+        },
+      ],
+    },
+    { id: "protocol", title: "Statistical paragraph for the protocol", blocks: [{ kind: "protocol", text: protocol }] },
+  ];
+}
+
+export const twoMeans: Design<TwoMeansInput, TwoMeansResult> = {
+  id: "two-means",
+  version: 1,
+  stage: "comparative",
+  title: "Two means (parallel groups)",
+  summary: "Sample size or power for comparing a continuous outcome between two arms: superiority, non-inferiority or equivalence, by the exact t method or the normal approximation.",
+  input: schema,
+  example: {
+    solveFor: "sample-size",
+    hypothesis: "superiority",
+    delta: 4,
+    sd: 9,
+    method: "exact-t",
+    alpha: 0.05,
+    power: 0.9,
+    sides: 2,
+    allocationRatio: 1,
+    dropout: 0.1,
+  },
+  compute: computeTwoMeans,
+  question: (input) => {
+    const what = input.solveFor === "sample-size"
+      ? "How many participants per arm"
+      : input.solveFor === "power" ? `What power do ${input.n1} control and ${input.n2} experimental participants give` : `What difference in means can ${input.n1} control and ${input.n2} experimental participants detect`;
+    const aim = input.hypothesis === "superiority"
+      ? input.solveFor === "difference" ? "" : ` to detect a difference in means of ${input.delta}`
+      : input.hypothesis === "non-inferiority" ? ` to show that the experimental arm is no worse than control by more than ${input.margin}` : ` to show that the arms differ by less than ${input.margin}`;
+    return `${what}${aim}, when the outcome's standard deviation is ${input.sd}, with ${input.solveFor === "power" ? "" : `${input.power * 100}% power and `}${input.hypothesis === "superiority" && input.sides === 2 ? "two-sided" : "one-sided"} α = ${input.alpha}?`;
+  },
+  document: documentTwoMeans,
+  references: [
+    { key: "Lenth 1989", text: "Lenth RV. Algorithm AS 243: cumulative distribution function of the non-central t distribution. Journal of the Royal Statistical Society, Series C (Applied Statistics). 1989;38(1):185-189.", doi: "10.2307/2347693" },
+    { key: "Cohen 1988", text: "Cohen J. Statistical Power Analysis for the Behavioral Sciences. 2nd ed. Hillsdale, NJ: Lawrence Erlbaum; 1988. Chapter 2." },
+    { key: "Schuirmann 1987", text: "Schuirmann DJ. A comparison of the two one-sided tests procedure and the power approach for assessing the equivalence of average bioavailability. Journal of Pharmacokinetics and Biopharmaceutics. 1987;15(6):657-680.", doi: "10.1007/BF01068419" },
+    { key: "Owen 1965", text: "Owen DB. A special case of a bivariate non-central t-distribution. Biometrika. 1965;52(3/4):437-446.", doi: "10.2307/2333696" },
+    { key: "Chow, Shao & Wang 2008", text: "Chow SC, Shao J, Wang H. Sample Size Calculations in Clinical Research. 2nd ed. Boca Raton: Chapman & Hall/CRC; 2008. Chapter 3." },
+  ],
+  cautions: [
+    "The standard deviation is an assumption; a sample size computed from an underestimated standard deviation gives less power than stated. Justify it from prior data.",
+  ],
+};
