@@ -1,9 +1,11 @@
 /** The catalog: every design the service computes. Adding a design is one line here. */
 import type { AnyDesign } from "./design.js";
 import { twoMeans } from "./twoMeans.js";
+import { threePlusThree } from "./threePlusThree.js";
 
 export const catalog: readonly AnyDesign[] = [
   twoMeans,
+  threePlusThree,
 ];
 
 const byId = new Map(catalog.map((d) => [d.id, d]));
