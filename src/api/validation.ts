@@ -9,7 +9,11 @@ import { type FieldError, ProblemError, dottedPath, pointerOf } from "./problem.
 export const MAX_BODY_BYTES = 64 * 1024;
 export const MAX_LABEL_LENGTH = 300;
 
+// zod's own wording for a bound; any other message was written by a design for clinicians.
+const DEFAULT_BOUND_MESSAGE = /^Too (small|big):/;
+
 function issueMessage(issue: z.core.$ZodIssue): string {
+  if ((issue.code === "too_small" || issue.code === "too_big") && !DEFAULT_BOUND_MESSAGE.test(issue.message)) return issue.message;
   switch (issue.code) {
     case "unrecognized_keys":
       return `Unknown field${issue.keys.length > 1 ? "s" : ""}: ${issue.keys.join(", ")}. Check the spelling against the design's schema.`;

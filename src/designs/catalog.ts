@@ -2,10 +2,12 @@
 import type { AnyDesign } from "./design.js";
 import { twoMeans } from "./twoMeans.js";
 import { threePlusThree } from "./threePlusThree.js";
+import { timeToEvent } from "./timeToEvent.js";
 
 export const catalog: readonly AnyDesign[] = [
   twoMeans,
   threePlusThree,
+  timeToEvent,
 ];
 
 const byId = new Map(catalog.map((d) => [d.id, d]));
