@@ -4,20 +4,12 @@ import { twoMeans } from "./twoMeans.js";
 import { boin } from "./boin.js";
 import { threePlusThree } from "./threePlusThree.js";
 import { timeToEvent } from "./timeToEvent.js";
-import { singleStageBinomial } from "./singleStageBinomial.js";
-import { simonTwoStage } from "./simonTwoStage.js";
-import { gehanTwoStage } from "./gehanTwoStage.js";
-import { twoStageInference } from "./twoStageInference.js";
 
 export const catalog: readonly AnyDesign[] = [
   twoMeans,
   boin,
   threePlusThree,
   timeToEvent,
-  singleStageBinomial,
-  simonTwoStage,
-  gehanTwoStage,
-  twoStageInference,
 ];
 
 const byId = new Map(catalog.map((d) => [d.id, d]));
