@@ -1,12 +1,14 @@
 /** The catalog: every design the service computes. Adding a design is one line here. */
 import type { AnyDesign } from "./design.js";
 import { twoMeans } from "./twoMeans.js";
+import { twoProportions } from "./twoProportions.js";
 import { boin } from "./boin.js";
 import { threePlusThree } from "./threePlusThree.js";
 import { timeToEvent } from "./timeToEvent.js";
 
 export const catalog: readonly AnyDesign[] = [
   twoMeans,
+  twoProportions,
   boin,
   threePlusThree,
   timeToEvent,

@@ -15,3 +15,22 @@ export const comparativeCommonFields = {
   dropout: z.number().min(0).max(0.9).default(0)
     .describe("Fraction of enrolled participants expected to be lost (0.1 is 10%); enrolment is inflated to n/(1 - dropout) per arm."),
 };
+
+export const solveForField = z.enum(["sample-size", "power", "difference"]).default("sample-size")
+  .describe("What to compute: the sample size for a target power, the power at given arm sizes, or the smallest difference detectable at given arm sizes.");
+
+/** A group size given when solving for power or for the difference. */
+export const groupSizeField = (description: string, maximum: number, minimum = 2) =>
+  z.number().int().min(minimum).max(maximum).optional().describe(description);
+
+interface CommonTargets { alpha: number; power: number; sides?: 1 | 2 | undefined; hypothesis: string }
+
+/** Cross-field rules shared by the comparative designs, reported on the field to change. */
+export function checkComparativeCommon(v: CommonTargets, ctx: z.RefinementCtx): void {
+  if (v.power <= v.alpha) {
+    ctx.addIssue({ code: "custom", path: ["power"], message: "Power must exceed alpha: a test that rejects no more often than chance is not a test." });
+  }
+  if (v.hypothesis !== "superiority" && v.sides === 2) {
+    ctx.addIssue({ code: "custom", path: ["sides"], message: `A ${v.hypothesis} test is one-sided at level alpha: set sides to 1 (a one-sided 0.025 matches a two-sided 0.05).` });
+  }
+}

@@ -35,6 +35,10 @@ export interface SizeSearch {
   minimum: number;
   /** Upper bound on the control-arm size; beyond it the design is infeasible. */
   maximum: number;
+  /** What the searched size counts, for the 422 message (default "per control arm"). */
+  unit?: string;
+  /** Input field the bound refers to, for the 422 details (default "n1"). */
+  field?: string;
 }
 
 /**
@@ -48,8 +52,8 @@ export function smallestSampleSize(search: SizeSearch): ArmSizes & { power: numb
   while (!reaches(hi)) {
     if (hi >= search.maximum) {
       throw new InfeasibleDesignError(
-        `No sample size up to ${search.maximum} per control arm reaches the target power ${search.target}.`,
-        { bound: search.maximum, field: "n1" },
+        `No sample size up to ${search.maximum} ${search.unit ?? "per control arm"} reaches the target power ${search.target}.`,
+        { bound: search.maximum, field: search.field ?? "n1" },
       );
     }
     hi = Math.min(search.maximum, hi * 2);
@@ -92,4 +96,76 @@ export function powerCurve(n1: number, allocationRatio: number, minimum: number,
     const arms = armsFromControl(size, allocationRatio);
     return [arms.n1 + arms.n2, powerAt(arms)];
   });
+}
+
+/**
+ * Arm sizes scaled by an inflation factor applied to the control arm (for
+ * example the maximum-information ratio of a group-sequential design, applied
+ * to a fixed-design size), the experimental arm following the allocation ratio.
+ */
+export function inflateArms(arms: ArmSizes, factor: number, allocationRatio: number): ArmSizes {
+  if (factor === 1) return arms;
+  return armsFromControl(Math.ceil(arms.n1 * factor - 1e-9), allocationRatio);
+}
+
+export interface SizeScan extends SizeSearch {
+  /**
+   * How far past the first size reaching the target the scan continues, as a
+   * multiple of that size (capped by `maximum`): the stated bound within which
+   * every larger size is checked.
+   */
+  stabilityMultiple: number;
+}
+
+export interface SizeScanResult {
+  /** Smallest control-arm size whose power reaches the target. */
+  first: ArmSizes & { power: number };
+  /**
+   * Smallest control-arm size from which every larger size up to `bound` also
+   * reaches the target; null when the power at the bound itself falls short.
+   */
+  stable: (ArmSizes & { power: number }) | null;
+  /** Largest control-arm size checked. */
+  bound: number;
+  /** [control-arm size, power] for every size scanned. */
+  powers: Array<[number, number]>;
+}
+
+/**
+ * Scan of every control-arm size, for exact discrete methods whose power is not
+ * monotone in n (the saw-tooth of Chernick & Liu 2002, The American
+ * Statistician 56:149-155). The work is bounded by `maximum`.
+ */
+export function scanSampleSizes(scan: SizeScan): SizeScanResult {
+  const powers: Array<[number, number]> = [];
+  let first: number | undefined;
+  let bound = scan.maximum;
+  for (let n1 = scan.minimum; n1 <= bound; n1++) {
+    const power = scan.powerAt(armsFromControl(n1, scan.allocationRatio));
+    powers.push([n1, power]);
+    if (first === undefined && power >= scan.target) {
+      first = n1;
+      bound = Math.min(scan.maximum, Math.max(n1 + 1, Math.ceil(n1 * scan.stabilityMultiple)));
+    }
+  }
+  if (first === undefined) {
+    throw new InfeasibleDesignError(
+      `No sample size up to ${scan.maximum} ${scan.unit ?? "per control arm"} reaches the target power ${scan.target}.`,
+      { bound: scan.maximum, field: scan.field ?? "n1" },
+    );
+  }
+  let stableN1: number | undefined;
+  for (let i = powers.length - 1; i >= 0 && powers[i]![1] >= scan.target; i--) stableN1 = powers[i]![0];
+  const at = (n1: number): ArmSizes & { power: number } => ({ ...armsFromControl(n1, scan.allocationRatio), power: powers[n1 - scan.minimum]![1] });
+  return { first: at(first), stable: stableN1 === undefined ? null : at(stableN1), bound, powers };
+}
+
+/** Points [effect, power] on an even grid of effects from lo to hi. */
+export function effectCurve(lo: number, hi: number, powerAtEffect: (effect: number) => number, points = 25): Array<[number, number]> {
+  const out: Array<[number, number]> = [];
+  for (let i = 0; i < points; i++) {
+    const effect = lo + ((hi - lo) * i) / (points - 1);
+    out.push([effect, powerAtEffect(effect)]);
+  }
+  return out;
 }
