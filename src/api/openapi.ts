@@ -58,6 +58,23 @@ export function openApiDocument(): Record<string, unknown> {
         },
       },
     };
+    designPaths[`/api/v1/designs/${design.id}/previews`] = {
+      post: {
+        operationId: `preview-${design.id}`,
+        summary: `Compute a ${design.title} calculation without storing it`,
+        description: "Same body as a calculation. Nothing is stored and no id is given; the answer is the normalized inputs, the result and the report sections.",
+        tags: [design.stage],
+        requestBody: (designPaths[`/api/v1/designs/${design.id}/calculations`] as { post: { requestBody: unknown } }).post.requestBody,
+        responses: {
+          "200": { description: "The computed design, not stored.", content: { "application/json": { schema: { $ref: "#/components/schemas/Preview" } } } },
+          "400": problemResponse("Malformed JSON or invalid inputs; `errors` names each field."),
+          "404": problemResponse("Unknown design."),
+          "413": problemResponse("Body larger than 64 KiB."),
+          "415": problemResponse("Body is not JSON."),
+          "422": problemResponse("Valid inputs, but no design meets the constraints within the bounds."),
+        },
+      },
+    };
   }
   return {
     openapi: "3.1.0",
@@ -130,6 +147,19 @@ export function openApiDocument(): Record<string, unknown> {
             result: { type: "object" },
             createdAt: { type: "string", format: "date-time" },
             digest: { type: "string", pattern: "^[0-9a-f]{64}$" },
+          },
+        },
+        Preview: {
+          type: "object",
+          required: ["design", "designVersion", "inputs", "result", "question", "sections", "cautions"],
+          properties: {
+            design: { type: "string" },
+            designVersion: { type: "integer" },
+            inputs: { type: "object" },
+            result: { type: "object" },
+            question: { type: "string" },
+            sections: { type: "array", items: { type: "object", required: ["id", "title", "blocks"] } },
+            cautions: { type: "array", items: { type: "string" } },
           },
         },
         Design: {

@@ -1,0 +1,194 @@
+/**
+ * The form pages in headless Chromium against the Worker under `wrangler dev`:
+ * the catalog, a Simon two-stage design from inputs to a frozen PDF, field
+ * errors beside their field, and the whole flow by keyboard alone.
+ */
+import type { Browser, BrowserContext, Page } from "playwright-core";
+import { afterAll, beforeAll, describe, expect, inject, it } from "vitest";
+import { launchBrowser } from "./browser.js";
+
+const base = inject("baseUrl");
+let browser: Browser;
+let context: BrowserContext;
+let catalogIds: string[] = [];
+const pageErrors: string[] = [];
+
+async function newPage(): Promise<Page> {
+  const page = await context.newPage();
+  page.on("pageerror", (e) => pageErrors.push(e.message));
+  return page;
+}
+
+/** Waits until the live result has settled (no request in flight). */
+async function settled(page: Page): Promise<void> {
+  await page.waitForFunction(() => !document.getElementById("result")?.hasAttribute("aria-busy") && /Up to date|No result|No design|Fix the marked/.test(document.getElementById("status")?.textContent ?? ""), undefined, { timeout: 20000 });
+}
+
+/** Presses Tab until the element matching `selector` has focus; fails if it is not reachable. */
+async function tabTo(page: Page, selector: string, limit = 80): Promise<void> {
+  for (let i = 0; i < limit; i += 1) {
+    if (await page.evaluate((s) => document.activeElement?.matches(s) ?? false, selector)) return;
+    await page.keyboard.press("Tab");
+  }
+  throw new Error(`${selector} was not reached with ${limit} presses of Tab`);
+}
+
+/** A focused control must show a visible focus indicator. */
+async function focusIsVisible(page: Page): Promise<boolean> {
+  return page.evaluate(() => {
+    const el = document.activeElement;
+    if (!el || el === document.body) return false;
+    const style = getComputedStyle(el);
+    return style.outlineStyle !== "none" && parseFloat(style.outlineWidth) >= 2;
+  });
+}
+
+beforeAll(async () => {
+  browser = await launchBrowser();
+  context = await browser.newContext({ viewport: { width: 1280, height: 900 }, acceptDownloads: true });
+  await context.grantPermissions(["clipboard-read", "clipboard-write"], { origin: base });
+  const catalog = await (await fetch(`${base}/api/v1/designs`)).json() as { designs: Array<{ id: string }> };
+  catalogIds = catalog.designs.map((d) => d.id);
+});
+
+afterAll(async () => {
+  await browser?.close();
+});
+
+describe("start page", () => {
+  it("lists the catalog by stage, each design with its summary, and filters by search", async () => {
+    const page = await newPage();
+    const response = await page.goto(`${base}/`);
+    // Strict CSP from static/_headers: the pages run with no inline script.
+    expect(response?.headers()["content-security-policy"]).toContain("script-src 'self'");
+    await page.waitForSelector(".design-card");
+    const stages = await page.$$eval("section.stage h2", (hs) => hs.map((h) => h.textContent));
+    expect(stages).toEqual(["Dose finding", "Activity", "Comparative", "Monitoring"]);
+    const cards = await page.$$eval(".design-card", (cs) => cs.map((c) => ({ id: c.getAttribute("data-design"), summary: c.querySelector("p")?.textContent ?? "" })));
+    expect(cards.map((c) => c.id).sort()).toEqual([...catalogIds].sort());
+    expect(cards.every((c) => c.summary.length > 20)).toBe(true);
+    const twoMeans = page.locator('.design-card[data-design="two-means"]');
+    expect(await twoMeans.locator("xpath=ancestor::section").getAttribute("data-stage")).toBe("comparative");
+
+    await page.fill("#search", "means");
+    expect(await twoMeans.isVisible()).toBe(true);
+    const visible = await page.$$eval(".design-card", (cs) => cs.filter((c) => !(c as HTMLElement).hidden).length);
+    expect(visible).toBeLessThan(cards.length);
+    await page.fill("#search", "no design has this word xyzzy");
+    expect(await page.textContent("#search-count")).toContain("No design matches");
+    await page.close();
+  });
+});
+
+describe("simon-two-stage from inputs to a frozen PDF", () => {
+  it("computes the optimal design, freezes it and serves the PDF", async (ctx) => {
+    if (!catalogIds.includes("simon-two-stage")) {
+      ctx.skip(true, "simon-two-stage is not in the catalog yet (src/designs/simonTwoStage.ts has not been added to catalog.ts)");
+    }
+    const page = await newPage();
+    await page.goto(`${base}/`);
+    await page.click('.design-card[data-design="simon-two-stage"] h3 a');
+    await page.waitForURL(/\/design\?id=simon-two-stage$/);
+    await page.waitForSelector("#preview-head .key-facts");
+    await page.fill("#f-p0", "0.2");
+    await page.fill("#f-p1", "0.4");
+    await page.fill("#f-alpha", "0.05");
+    await page.fill("#f-power", "0.8");
+    await page.waitForFunction(() => document.querySelector(".question")?.textContent?.includes("0.4"), undefined, { timeout: 20000 });
+    await settled(page);
+    // Simon (1989), Table 1, p0 = 0.20, p1 = 0.40, alpha = 0.05, beta = 0.20 (from memory of the table): optimal 3/13, 12/43.
+    const optimal = await page.$$eval('table[data-table="designs"] tbody tr', (rows) => {
+      const row = rows.find((r) => r.querySelector("th")?.textContent === "Optimal");
+      return row ? [...row.querySelectorAll("td")].slice(0, 4).map((td) => td.textContent) : null;
+    });
+    expect(optimal).toEqual(["3", "13", "12", "43"]);
+
+    await page.fill("#label", "TW-417 activity screen, browser check");
+    await page.click("#freeze-button");
+    await page.waitForSelector("#frozen .frozen");
+    const permalink = await page.inputValue("#permalink");
+    expect(permalink).toMatch(new RegExp(`^${base}/c/c_[0-9a-f]{32}$`));
+    expect(await page.inputValue("#citation")).toContain(permalink.slice(permalink.lastIndexOf("/") + 1));
+    for (const format of ["pdf", "csv", "bib", "ris"]) {
+      expect(await page.getAttribute(`a[data-format="${format}"]`, "href")).toBe(`${new URL(permalink).pathname}.${format}`);
+    }
+
+    const [download] = await Promise.all([page.waitForEvent("download"), page.click('a[data-format="pdf"]')]);
+    const stream = await download.createReadStream();
+    const chunks: Buffer[] = [];
+    for await (const chunk of stream) chunks.push(chunk as Buffer);
+    expect(Buffer.concat(chunks).subarray(0, 5).toString("latin1")).toBe("%PDF-");
+
+    await page.click("a.open-report");
+    await page.waitForURL(permalink);
+    expect(await page.textContent("body")).toContain("TW-417 activity screen, browser check");
+    await page.close();
+  });
+});
+
+describe("validation errors", () => {
+  it("shows the API's error beside the field it names", async () => {
+    const page = await newPage();
+    await page.goto(`${base}/design?id=two-means`);
+    await page.waitForSelector("#preview-head .key-facts");
+    await page.fill("#f-alpha", "0.7");
+    await page.press("#f-alpha", "Enter");
+    await page.waitForSelector("#err-alpha:not([hidden])");
+    // The message is the API's (problem+json errors[].message for /inputs/alpha), shown in the alpha field's own slot.
+    expect(await page.textContent("#err-alpha")).toMatch(/at most 0\.5/);
+    expect(await page.getAttribute("#f-alpha", "aria-invalid")).toBe("true");
+    expect((await page.getAttribute("#f-alpha", "aria-describedby"))?.split(" ")).toContain("err-alpha");
+    expect(await page.$$eval(".field-error:not([hidden])", (els) => els.map((e) => e.id))).toEqual(["err-alpha"]);
+    expect(await page.isDisabled("#freeze-button")).toBe(false);
+    // The summary links to the field.
+    await page.click("#form-summary a");
+    expect(await page.evaluate(() => document.activeElement?.id)).toBe("f-alpha");
+
+    await page.fill("#f-alpha", "0.05");
+    await page.waitForSelector("#err-alpha", { state: "hidden" });
+    expect(await page.getAttribute("#f-alpha", "aria-invalid")).toBeNull();
+    await page.close();
+  });
+});
+
+describe("keyboard alone", () => {
+  it("reaches every step of the form, computes, freezes and copies the link without a pointer", async () => {
+    const page = await newPage();
+    await page.goto(`${base}/design?id=two-means`);
+    await page.waitForSelector("#preview-head .key-facts");
+    await page.keyboard.press("Tab");
+    expect(await page.evaluate(() => document.activeElement?.className)).toBe("skip");
+    await page.keyboard.press("Enter");
+    await tabTo(page, "input[name=f-solveFor]");
+    expect(await focusIsVisible(page)).toBe(true);
+    // Arrow keys move between the choices of a radio group.
+    await page.keyboard.press("ArrowDown");
+    expect(await page.evaluate(() => (document.activeElement as HTMLInputElement).value)).toBe("1");
+    await page.keyboard.press("ArrowUp");
+    await tabTo(page, "#f-delta");
+    await page.keyboard.press("Control+A");
+    await page.keyboard.type("5");
+    await tabTo(page, "#f-sd");
+    await page.keyboard.press("Control+A");
+    await page.keyboard.type("10");
+    await page.keyboard.press("Enter");
+    await page.waitForFunction(() => document.querySelector(".question")?.textContent?.includes("difference in means of 5"), undefined, { timeout: 20000 });
+    await settled(page);
+    await tabTo(page, "#label");
+    await page.keyboard.type("TW-208 keyboard check");
+    await tabTo(page, "#freeze-button");
+    expect(await focusIsVisible(page)).toBe(true);
+    await page.keyboard.press("Enter");
+    await page.waitForSelector("#frozen .frozen");
+    expect(await page.evaluate(() => document.activeElement?.id)).toBe("frozen-heading");
+    await tabTo(page, "button[data-copy=link]", 10);
+    await page.keyboard.press("Space");
+    await page.waitForFunction(() => document.getElementById("status")?.textContent === "Link copied.");
+    expect(await page.evaluate(() => navigator.clipboard.readText())).toBe(await page.inputValue("#permalink"));
+    await page.close();
+  });
+
+  it("raised no script errors on any page", () => {
+    expect(pageErrors).toEqual([]);
+  });
+});
