@@ -5,6 +5,7 @@ import { twoProportions } from "./twoProportions.js";
 import { boin } from "./boin.js";
 import { threePlusThree } from "./threePlusThree.js";
 import { timeToEvent } from "./timeToEvent.js";
+import { factorial2x2 } from "./factorial2x2.js";
 
 export const catalog: readonly AnyDesign[] = [
   twoMeans,
@@ -12,6 +13,7 @@ export const catalog: readonly AnyDesign[] = [
   boin,
   threePlusThree,
   timeToEvent,
+  factorial2x2,
 ];
 
 const byId = new Map(catalog.map((d) => [d.id, d]));
