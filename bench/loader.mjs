@@ -19,6 +19,11 @@ export async function resolve(specifier, context, next) {
 }
 
 export async function load(url, context, next) {
+  // Fonts are binary modules in the Worker (wrangler's Data rule): the same ArrayBuffer here.
+  if (url.endsWith(".ttf")) {
+    const bytes = await readFile(fileURLToPath(url));
+    return { format: "module", source: `export default Uint8Array.from(atob(${JSON.stringify(bytes.toString("base64"))}), (c) => c.charCodeAt(0)).buffer;`, shortCircuit: true };
+  }
   if (url.endsWith(".ts")) {
     const source = await readFile(fileURLToPath(url), "utf8");
     const { code } = await transform(source, { loader: "ts", format: "esm", target: "node20", sourcefile: url });

@@ -1,12 +1,13 @@
 /**
  * Builds the full document of a frozen calculation: the design's own sections
- * framed by what every report carries (question, inputs, references,
- * provenance, how to cite, caution).
+ * framed by what every report carries, in the order a reader needs them: the
+ * question, the key facts, the inputs, the design, its references, then
+ * provenance (versions, id, digest, creation time), how to cite, and the caution.
  */
-import type { AnyDesign } from "../designs/design.js";
+import type { AnyDesign, Citation } from "../designs/design.js";
 import { fieldDescriptions } from "../designs/schema.js";
 import type { CalculationRecord } from "../store/record.js";
-import type { Cell, Section } from "./document.js";
+import type { Cell, Fact, Section, Table } from "./document.js";
 
 export const CAUTION =
   "Trialwright is a planning aid. Every design it computes must be reviewed by a qualified statistician before use; " +
@@ -20,12 +21,19 @@ export interface ReportDocument {
   record: CalculationRecord;
   permalink: string;
   citation: string;
+  designId: string;
+  designSummary: string;
+  /** The design's headline facts, shown first. */
+  keyFacts: Fact[];
+  references: Citation[];
+  cautions: string[];
 }
 
 function inputCell(value: unknown): Cell {
   if (value === null || value === undefined) return null;
   if (typeof value === "number" || typeof value === "string") return value;
   if (typeof value === "boolean") return value ? "yes" : "no";
+  if (Array.isArray(value) && value.every((v) => typeof v === "number" || typeof v === "string")) return value.join(", ");
   return JSON.stringify(value);
 }
 
@@ -36,12 +44,31 @@ export function citationText(design: AnyDesign, record: CalculationRecord, perma
   return `Trialwright (${year}). ${what} [design ${design.id} v${record.designVersion}; ${record.engine}]. Frozen calculation ${record.id}, SHA-256 ${record.digest}. ${permalink}`;
 }
 
+/** Tables of the design's own sections (not the inputs): the ones offered as CSV. */
+export function mainTables(doc: ReportDocument): Table[] {
+  return doc.sections
+    .filter((s) => !FRAME_SECTIONS.has(s.id))
+    .flatMap((s) => s.blocks.flatMap((b) => (b.kind === "table" ? [b.table] : [])));
+}
+
+/** Every table of the report, inputs included, by id. */
+export function findTable(doc: ReportDocument, tableId: string): Table | undefined {
+  for (const s of doc.sections) for (const b of s.blocks) if (b.kind === "table" && b.table.id === tableId) return b.table;
+  return undefined;
+}
+
+const FRAME_SECTIONS = new Set(["summary", "inputs", "references", "provenance", "citation", "caution"]);
+
 export function buildReport(design: AnyDesign, record: CalculationRecord, origin: string): ReportDocument {
   const inputs = record.inputs as Record<string, unknown>;
   const descriptions = fieldDescriptions(design);
   const permalink = `${origin}/c/${record.id}`;
   const citation = citationText(design, record, permalink);
+  const designSections = design.document(inputs, record.result) as Section[];
+  const keyFacts = designSections.flatMap((s) => s.blocks.flatMap((b) => (b.kind === "facts" ? b.facts.filter((f) => f.key) : [])));
+  const cautions = [CAUTION, ...design.cautions];
   const sections: Section[] = [
+    ...(keyFacts.length > 0 ? [{ id: "summary", title: "At a glance", blocks: [{ kind: "facts" as const, facts: keyFacts }] }] : []),
     {
       id: "inputs",
       title: "Inputs",
@@ -51,7 +78,7 @@ export function buildReport(design: AnyDesign, record: CalculationRecord, origin
           id: "inputs",
           caption: "Inputs as normalized, defaults filled in",
           columns: [
-            { key: "field", label: "Field" },
+            { key: "field", label: "Input" },
             { key: "value", label: "Value" },
             { key: "meaning", label: "Meaning" },
           ],
@@ -59,25 +86,28 @@ export function buildReport(design: AnyDesign, record: CalculationRecord, origin
         },
       }],
     },
-    ...design.document(inputs, record.result),
+    ...designSections,
     { id: "references", title: "References", blocks: [{ kind: "list", items: design.references.map((r) => r.text + (r.doi ? ` doi:${r.doi}` : "")) }] },
     {
       id: "provenance",
-      title: "Provenance",
+      title: "About this calculation",
       blocks: [{
         kind: "facts",
         facts: [
-          { label: "Calculation id", value: record.id },
-          { label: "Design", value: `${design.id}, version ${record.designVersion}` },
+          { label: "Design", value: `${design.title} (${design.id}, version ${record.designVersion})` },
           { label: "Engine", value: record.engine },
+          { label: "Calculation id", value: record.id },
           { label: "Created", value: record.createdAt },
           { label: "Digest (SHA-256)", value: record.digest },
           { label: "Permalink", value: permalink },
         ],
+      }, {
+        kind: "paragraph",
+        text: "The id is derived from the design, its version, the inputs and the label; the digest covers the whole stored record. The record is never changed: a new version of the method gives a new id.",
       }],
     },
     { id: "citation", title: "How to cite this calculation", blocks: [{ kind: "paragraph", text: citation }] },
-    { id: "caution", title: "Caution", blocks: [{ kind: "list", items: [CAUTION, ...design.cautions] }] },
+    { id: "caution", title: "Caution", blocks: [{ kind: "list", items: cautions }] },
   ];
   return {
     title: record.label ?? design.title,
@@ -87,5 +117,10 @@ export function buildReport(design: AnyDesign, record: CalculationRecord, origin
     record,
     permalink,
     citation,
+    designId: design.id,
+    designSummary: design.summary,
+    keyFacts,
+    references: design.references,
+    cautions,
   };
 }

@@ -1,0 +1,63 @@
+// Every catalog design's example renders as HTML and PDF, and the numbers a
+// reader sees in the PDF are the record's numbers as the document formats them.
+// The PDF's text is read back by poppler's pdftotext (an independent PDF
+// parser), not by our own code.
+import { describe, expect, it } from "vitest";
+import { catalog } from "../../../src/designs/catalog.js";
+import { type Cell, formatCell } from "../../../src/report/document.js";
+import { renderHtml } from "../../../src/report/html.js";
+import { renderPdf } from "../../../src/report/pdf.js";
+import { escapeMarkup } from "../../../src/report/escape.js";
+import { TEST_FONTS, exampleReport, pdfText } from "../../support/report.js";
+
+/** Every finite number anywhere in a JSON value. */
+function numbersIn(value: unknown, out: number[] = []): number[] {
+  if (typeof value === "number" && Number.isFinite(value)) out.push(value);
+  else if (Array.isArray(value)) for (const v of value) numbersIn(v, out);
+  else if (value && typeof value === "object") for (const v of Object.values(value)) numbersIn(v, out);
+  return out;
+}
+
+/** pdftotext splits words at gaps; compare on single spaces. */
+const words = (text: string): Set<string> => new Set(text.split(/\s+/).map((w) => w.replace(/^[(\[]+|[),;:\]]+$/g, "")));
+
+describe.each(catalog.map((d) => [d.id, d] as const))("%s", (_id, design) => {
+  it("renders its example as a PDF whose numbers are the record's, as formatted", async () => {
+    const doc = await exampleReport(design, `${design.title}: TW-417 example`);
+    const text = pdfText(await renderPdf(doc, TEST_FONTS));
+    const seen = words(text);
+    const recordNumbers = numbersIn([doc.record.result, doc.record.inputs]);
+    const shown: Array<{ where: string; value: number; text: string }> = [];
+    for (const section of doc.sections) {
+      for (const block of section.blocks) {
+        if (block.kind === "facts") {
+          for (const f of block.facts) if (typeof f.value === "number" && Number.isFinite(f.value)) shown.push({ where: `${section.id}: ${f.label}`, value: f.value, text: formatCell(f.value, f.digits) });
+        } else if (block.kind === "table") {
+          block.table.rows.forEach((row, r) => block.table.columns.forEach((c, i) => {
+            const cell: Cell = row[i] ?? null;
+            if (typeof cell === "number" && Number.isFinite(cell)) shown.push({ where: `${block.table.id} row ${r + 1} ${c.label}`, value: cell, text: formatCell(cell, c.digits) });
+          }));
+        }
+      }
+    }
+    expect(shown.length).toBeGreaterThan(0);
+    const missing = shown.filter((s) => !seen.has(s.text));
+    expect(missing, "numbers of the document absent from the PDF text").toEqual([]);
+    // The headline numbers are the stored record's, not recomputed by the report.
+    const keyNumbers = doc.keyFacts.flatMap((f) => (typeof f.value === "number" ? [{ label: f.label, text: formatCell(f.value, f.digits), digits: f.digits }] : []));
+    const unmatched = keyNumbers.filter((k) => !recordNumbers.some((x) => formatCell(x, k.digits) === k.text));
+    expect(unmatched, "key facts whose value is not a number of the JSON record").toEqual([]);
+    expect(text).toContain(doc.record.id);
+    expect(text.replace(/\s+/g, "")).toContain(doc.record.digest);
+  });
+
+  it("renders its example as a self-contained HTML page showing the same numbers", async () => {
+    const doc = await exampleReport(design);
+    const html = renderHtml(doc);
+    expect(html).not.toMatch(/<script|<link rel="stylesheet"|src="https?:|url\(/i);
+    for (const f of doc.keyFacts) expect(html).toContain(escapeMarkup(formatCell(f.value, f.digits)));
+    expect(html).toContain(doc.record.digest);
+    expect(html).toContain(escapeMarkup(doc.question));
+    expect(html).toContain('<th scope="col"');
+  });
+});
