@@ -4,6 +4,7 @@ import { twoMeans } from "./twoMeans.js";
 import { twoProportions } from "./twoProportions.js";
 import { boin } from "./boin.js";
 import { threePlusThree } from "./threePlusThree.js";
+import { bayesianMonitoring } from "./bayesianMonitoring.js";
 import { timeToEvent } from "./timeToEvent.js";
 import { factorial2x2 } from "./factorial2x2.js";
 
@@ -12,6 +13,7 @@ export const catalog: readonly AnyDesign[] = [
   twoProportions,
   boin,
   threePlusThree,
+  bayesianMonitoring,
   timeToEvent,
   factorial2x2,
 ];

@@ -1,0 +1,226 @@
+// Bayesian monitoring: boundaries and exact operating characteristics against
+// an R implementation written from the definitions, a recalled published
+// example, a seeded Monte Carlo of the same rules, and the 400/422 paths.
+import { describe, expect, it } from "vitest";
+import { expectClose, loadFixture } from "../../support/fixtures.js";
+import {
+  type BayesianMonitoringInput, bayesianMonitoring, predictiveProbability,
+} from "../../../src/designs/bayesianMonitoring.js";
+import { InfeasibleDesignError } from "../../../src/designs/design.js";
+import { betaCdf, betaSurvival } from "../../../src/stats/beta.js";
+import { betaBinomialPmf } from "../../../src/stats/betaBinomial.js";
+import { createRandom } from "../../../src/stats/random.js";
+
+interface RuleCase {
+  rule: "posterior" | "predictive";
+  checks: number[];
+  stopAt: Array<number | null>;
+  rates: number[];
+  probabilityOfStopping?: number[];
+  probabilityPromising?: number[];
+  probabilityOfEarlyTermination: number[];
+  expectedSampleSize: number[];
+  finalSuccessCount?: number;
+  alpha?: number;
+  power?: number;
+  [field: string]: unknown;
+}
+
+const INPUT_FIELDS = ["rule", "monitor", "limit", "threshold", "p0", "p1", "efficacyThreshold", "futilityThreshold", "priorA", "priorB", "maxN", "cohortSize", "firstCheck"];
+const parse = (v: unknown): BayesianMonitoringInput => bayesianMonitoring.input.parse(v);
+
+describe("bayesian-monitoring against R (test/fixtures/bayesian-monitoring/generate.R: pbeta, lbeta, explicit recursion)", () => {
+  const f = loadFixture<RuleCase>("bayesian-monitoring/rules.json");
+  it("has both rules", () => {
+    expect(f.cases.filter((c) => c.rule === "posterior").length).toBe(6);
+    expect(f.cases.filter((c) => c.rule === "predictive").length).toBe(4);
+  });
+  for (const c of f.cases) {
+    const raw = Object.fromEntries(INPUT_FIELDS.filter((k) => c[k] !== undefined).map((k) => [k, c[k]]));
+    it(`${c.rule} ${JSON.stringify(raw)}`, () => {
+      const r = bayesianMonitoring.compute(parse({ ...raw, trueRates: c.rates }));
+      expect(r.boundary.map((b) => b.patients)).toEqual(c.checks);
+      expect(r.boundary.map((b) => b.stopAt)).toEqual(c.stopAt);
+      if (c.rule === "predictive") {
+        expect(r.finalSuccessCount).toBe(c.finalSuccessCount);
+        expectClose(r.alpha!, c.alpha!, f.tolerance, { ...raw, alpha: true });
+        expectClose(r.power!, c.power!, f.tolerance, { ...raw, power: true });
+      }
+      expect(r.operatingCharacteristics.map((o) => o.rate)).toEqual(c.rates);
+      r.operatingCharacteristics.forEach((o, i) => {
+        const at = { ...raw, rate: o.rate };
+        if (c.rule === "posterior") expectClose(o.probabilityOfStopping, c.probabilityOfStopping![i]!, f.tolerance, at);
+        else expectClose(o.probabilityPromising!, c.probabilityPromising![i]!, f.tolerance, at);
+        expectClose(o.probabilityOfEarlyTermination, c.probabilityOfEarlyTermination[i]!, f.tolerance, at);
+        expectClose(o.expectedSampleSize, c.expectedSampleSize[i]!, f.tolerance * 100, at);
+      });
+    });
+  }
+});
+
+describe("published example", () => {
+  it("Lee & Liu 2008, Table 1: 16 responses of 23, Nmax 40, Beta(0.6, 0.4) prior, p0 0.6, θT 0.9 gives PP 0.5656 (from memory of Lee & Liu 2008, Table 1)", () => {
+    const input = parse({ rule: "predictive", p0: 0.6, p1: 0.8, priorA: 0.6, priorB: 0.4, maxN: 40, firstCheck: 10, efficacyThreshold: 0.9 });
+    const r = bayesianMonitoring.compute(input);
+    expectClose(predictiveProbability(input, r.finalSuccessCount!, 16, 23), 0.5656, 5e-5, { x: 16, n: 23 });
+  });
+});
+
+/** The posterior rule applied directly: at each check, compute the posterior probability. */
+function simulatePosterior(input: BayesianMonitoringInput, rate: number, trials: number, seed: number) {
+  const random = createRandom(seed);
+  const memo = new Map<number, number>();
+  const beyond = (x: number, n: number): number => {
+    const key = x * 1000 + n;
+    let v = memo.get(key);
+    if (v === undefined) {
+      v = input.monitor === "response"
+        ? betaCdf(input.limit!, input.priorA + x, input.priorB + n - x)
+        : betaSurvival(input.limit!, input.priorA + x, input.priorB + n - x);
+      memo.set(key, v);
+    }
+    return v;
+  };
+  const isCheck = (n: number): boolean => n === input.maxN || (n >= input.firstCheck && (n - input.firstCheck) % input.cohortSize === 0);
+  let stops = 0;
+  let early = 0;
+  let size = 0;
+  for (let t = 0; t < trials; t++) {
+    let x = 0;
+    let n = 0;
+    let stopped = false;
+    while (n < input.maxN && !stopped) {
+      n++;
+      if (random.bernoulli(rate)) x++;
+      if (isCheck(n) && beyond(x, n) > input.threshold!) stopped = true;
+    }
+    if (stopped) { stops++; if (n < input.maxN) early++; }
+    size += n;
+  }
+  return { stop: stops / trials, early: early / trials, size: size / trials };
+}
+
+/** The predictive rule applied directly from Lee & Liu's sum over future responses. */
+function simulatePredictive(input: BayesianMonitoringInput, rate: number, trials: number, seed: number) {
+  const random = createRandom(seed);
+  const N = input.maxN;
+  const success = (x: number): boolean => betaSurvival(input.p0!, input.priorA + x, input.priorB + N - x) > input.efficacyThreshold!;
+  const memo = new Map<number, number>();
+  const pp = (x: number, n: number): number => {
+    const key = x * 1000 + n;
+    let v = memo.get(key);
+    if (v === undefined) {
+      v = 0;
+      for (let y = 0; y <= N - n; y++) if (success(x + y)) v += betaBinomialPmf(y, N - n, input.priorA + x, input.priorB + n - x);
+      memo.set(key, v);
+    }
+    return v;
+  };
+  let promising = 0;
+  let early = 0;
+  let size = 0;
+  for (let t = 0; t < trials; t++) {
+    let x = 0;
+    let n = 0;
+    let stopped = false;
+    while (n < N && !stopped) {
+      n++;
+      if (random.bernoulli(rate)) x++;
+      if (n < N && n >= input.firstCheck && (n - input.firstCheck) % input.cohortSize === 0 && pp(x, n) < input.futilityThreshold!) stopped = true;
+    }
+    if (stopped) early++; else if (success(x)) promising++;
+    size += n;
+  }
+  return { promising: promising / trials, early: early / trials, size: size / trials };
+}
+
+describe("exact operating characteristics against a seeded Monte Carlo of the same rules (within 4.5 standard errors)", () => {
+  const trials = 20000;
+  const within = (simulated: number, exact: number, sd: number, at: Record<string, unknown>): void =>
+    expectClose(simulated, exact, 4.5 * sd / Math.sqrt(trials) + 1e-9, at);
+  it(`posterior toxicity rule, the design's example, at true rates 0.2 and 0.4 (seeds 11, 12; ${trials} trials)`, () => {
+    const input = parse(bayesianMonitoring.example);
+    const r = bayesianMonitoring.compute(parse({ ...bayesianMonitoring.example, trueRates: [0.2, 0.4] }));
+    [0.2, 0.4].forEach((rate, i) => {
+      const sim = simulatePosterior(input, rate, trials, 11 + i);
+      const exact = r.operatingCharacteristics[i]!;
+      within(sim.stop, exact.probabilityOfStopping, Math.sqrt(exact.probabilityOfStopping * (1 - exact.probabilityOfStopping)), { rate, stop: true });
+      within(sim.early, exact.probabilityOfEarlyTermination, Math.sqrt(exact.probabilityOfEarlyTermination * (1 - exact.probabilityOfEarlyTermination)), { rate, early: true });
+      within(sim.size, exact.expectedSampleSize, input.maxN / 2, { rate, size: true });
+    });
+  });
+  it(`posterior futility rule checked by cohorts of 5, at 0.1 (seed 13; ${trials} trials)`, () => {
+    const raw = { rule: "posterior", monitor: "response", limit: 0.2, threshold: 0.95, maxN: 30, cohortSize: 5 };
+    const input = parse(raw);
+    const exact = bayesianMonitoring.compute(parse({ ...raw, trueRates: [0.1] })).operatingCharacteristics[0]!;
+    const sim = simulatePosterior(input, 0.1, trials, 13);
+    within(sim.stop, exact.probabilityOfStopping, Math.sqrt(exact.probabilityOfStopping * (1 - exact.probabilityOfStopping)), { stop: true });
+    within(sim.size, exact.expectedSampleSize, input.maxN / 2, { size: true });
+  });
+  it(`predictive rule: alpha at p0 and power at p1 (seeds 21, 22; ${trials} trials)`, () => {
+    const raw = { rule: "predictive", p0: 0.2, p1: 0.4, priorA: 0.2, priorB: 0.8, maxN: 40, firstCheck: 10 };
+    const input = parse(raw);
+    const r = bayesianMonitoring.compute(parse({ ...raw, trueRates: [0.2, 0.4] }));
+    [0.2, 0.4].forEach((rate, i) => {
+      const sim = simulatePredictive(input, rate, trials, 21 + i);
+      const exact = r.operatingCharacteristics[i]!;
+      within(sim.promising, exact.probabilityPromising!, Math.sqrt(exact.probabilityPromising! * (1 - exact.probabilityPromising!)), { rate, promising: true });
+      within(sim.early, exact.probabilityOfEarlyTermination, Math.sqrt(exact.probabilityOfEarlyTermination * (1 - exact.probabilityOfEarlyTermination)), { rate, early: true });
+      within(sim.size, exact.expectedSampleSize, input.maxN / 2, { rate, size: true });
+    });
+    expect(r.alpha).toBe(r.operatingCharacteristics[0]!.probabilityPromising);
+    expect(r.power).toBe(r.operatingCharacteristics[1]!.probabilityPromising);
+  });
+});
+
+describe("bayesian-monitoring inputs", () => {
+  const paths = (v: unknown): string[] => {
+    const r = bayesianMonitoring.input.safeParse(v);
+    return r.success ? [] : r.error.issues.map((i) => i.path.join("."));
+  };
+  it("the example parses, computes to finite JSON and documents", () => {
+    const input = parse(bayesianMonitoring.example);
+    const result = bayesianMonitoring.compute(input);
+    expect(JSON.parse(JSON.stringify(result))).toEqual(result);
+    expect(bayesianMonitoring.document(input, result).map((s) => s.id)).toEqual(["design", "operating-characteristics", "protocol"]);
+  });
+  it("fills defaults by rule", () => {
+    expect(parse({ limit: 0.3, maxN: 20 })).toMatchObject({ rule: "posterior", monitor: "toxicity", threshold: 0.9, firstCheck: 1, cohortSize: 1 });
+    const p = parse({ rule: "predictive", p0: 0.1, p1: 0.3, maxN: 20, cohortSize: 4 });
+    expect(p).toMatchObject({ efficacyThreshold: 0.9, futilityThreshold: 0.05, firstCheck: 4 });
+    expect(p.threshold).toBeUndefined();
+  });
+  it("names the field of each bad input", () => {
+    expect(paths({ maxN: 20 })).toEqual(["limit"]);
+    expect(paths({ limit: 1.2, maxN: 20 })).toEqual(["limit"]);
+    expect(paths({ limit: 0.3, maxN: 301 })).toEqual(["maxN"]);
+    expect(paths({ limit: 0.3, maxN: 20, cohortSize: 25 })).toEqual(["cohortSize"]);
+    expect(paths({ limit: 0.3, maxN: 20, p0: 0.2 })).toEqual(["p0"]);
+    expect(paths({ limit: 0.3, maxN: 20, trueRates: [0.2, 0] })).toEqual(["trueRates.1"]);
+    expect(paths({ rule: "predictive", p0: 0.3, p1: 0.3, maxN: 20 })).toEqual(["p1"]);
+    expect(paths({ rule: "predictive", p0: 0.3, p1: 0.5, maxN: 20, firstCheck: 20 })).toEqual(["firstCheck"]);
+    expect(paths({ rule: "predictive", p0: 0.3, p1: 0.5, maxN: 20, limit: 0.2, threshold: 0.8 })).toEqual(["limit", "threshold"]);
+  });
+  const infeasible = (raw: unknown): InfeasibleDesignError => {
+    try {
+      bayesianMonitoring.compute(parse(raw));
+    } catch (e) {
+      if (e instanceof InfeasibleDesignError) return e;
+      throw e;
+    }
+    throw new Error("expected an InfeasibleDesignError");
+  };
+  it("is infeasible when no outcome can stop the trial, and says the smallest maxN that would (common practice: 1 - 0.5^(n+1) > 0.999 first at n = 9)", () => {
+    const e = infeasible({ limit: 0.5, threshold: 0.999, maxN: 5 });
+    expect(e.details).toMatchObject({ field: "maxN", bound: 9 });
+  });
+  it("is infeasible when the prior alone stops the trial at the first check", () => {
+    expect(infeasible({ limit: 0.3, priorA: 9, priorB: 1, maxN: 20 }).details).toMatchObject({ field: "threshold" });
+  });
+  it("is infeasible when no final result can be promising (common practice: 1 - 0.5^(n+1) > 0.99 first at n = 6)", () => {
+    expect(infeasible({ rule: "predictive", p0: 0.5, p1: 0.7, efficacyThreshold: 0.99, maxN: 5, firstCheck: 2 }).details).toMatchObject({ field: "maxN", bound: 6 });
+  });
+  it("is infeasible when the futility rule stops at the first check whatever the outcomes", () => {
+    expect(infeasible({ rule: "predictive", p0: 0.3, p1: 0.5, maxN: 40, firstCheck: 2, futilityThreshold: 0.99 }).details).toMatchObject({ field: "futilityThreshold" });
+  });
+});
