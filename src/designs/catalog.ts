@@ -2,6 +2,7 @@
 import type { AnyDesign } from "./design.js";
 import { twoMeans } from "./twoMeans.js";
 import { twoProportions } from "./twoProportions.js";
+import { crossover2x2 } from "./crossover2x2.js";
 import { boin } from "./boin.js";
 import { threePlusThree } from "./threePlusThree.js";
 import { bayesianMonitoring } from "./bayesianMonitoring.js";
@@ -11,6 +12,7 @@ import { factorial2x2 } from "./factorial2x2.js";
 export const catalog: readonly AnyDesign[] = [
   twoMeans,
   twoProportions,
+  crossover2x2,
   boin,
   threePlusThree,
   bayesianMonitoring,

@@ -1,0 +1,116 @@
+// The AB/BA crossover against R base stats (fixtures written by
+// test/fixtures/crossover-2x2/generate.R, tolerances stated in each file) and
+// the normal-theory formula n = 2σw²(z_{1-α/2} + z_{1-β})²/δ² (Julious 2004, §4.1).
+import { describe, expect, it } from "vitest";
+import { expectClose, loadFixture } from "../../support/fixtures.js";
+import { InfeasibleDesignError } from "../../../src/designs/design.js";
+import { crossover2x2, crossoverPower, crossoverStandardError } from "../../../src/designs/crossover2x2.js";
+import { normalQuantile } from "../../../src/stats/normal.js";
+
+const parse = (inputs: Record<string, unknown>) => crossover2x2.input.parse(inputs);
+const compute = (inputs: Record<string, unknown>) => crossover2x2.compute(parse(inputs));
+
+function issuesOf(inputs: Record<string, unknown>): Array<{ path: string; message: string }> {
+  const result = crossover2x2.input.safeParse(inputs);
+  expect(result.success).toBe(false);
+  return result.success ? [] : result.error.issues.map((i) => ({ path: i.path.join("."), message: i.message }));
+}
+
+describe("exact t against R pt with ncp", () => {
+  it("power at given sequence sizes", () => {
+    const f = loadFixture<{ n1: number; n2: number; delta: number; sw: number; alpha: number; sides: 1 | 2; margin: number; power: number }>("crossover-2x2/exact-t-power.json");
+    for (const c of f.cases) {
+      const test = { hypothesis: c.margin > 0 ? "non-inferiority" as const : "superiority" as const, sides: c.sides, alpha: c.alpha, margin: c.margin, method: "exact-t" as const };
+      expectClose(crossoverPower(test, c.sw, { n1: c.n1, n2: c.n2 }, c.delta), c.power, f.tolerance, c);
+    }
+  });
+  it("smallest balanced size per sequence, and its power", () => {
+    const f = loadFixture<{ ratio: number; alpha: number; power: number; sides: 1 | 2; perSequence: number; powerAtSize: number }>("crossover-2x2/exact-t-size.json");
+    for (const c of f.cases) {
+      const r = compute({ delta: c.ratio, withinSubjectSd: 1, alpha: c.alpha, power: c.power, sides: c.sides });
+      expect([r.n1, r.n2], JSON.stringify(c)).toEqual([c.perSequence, c.perSequence]);
+      expectClose(r.power, c.powerAtSize, f.tolerance, c);
+    }
+  });
+});
+
+describe("normal approximation against the normal-theory formula", () => {
+  const f = loadFixture<{ ratio: number; alpha: number; power: number; sides: 1 | 2; total: number }>("crossover-2x2/normal-size.json");
+  it("the closed form computed in R matches 2σw²(z + z)²/δ² computed here", () => {
+    for (const c of f.cases) {
+      const z = normalQuantile(1 - c.alpha / c.sides) + normalQuantile(c.power);
+      expectClose((2 * z * z) / (c.ratio * c.ratio), c.total, f.tolerance, c, "relative");
+    }
+  });
+  it("the design's total is the formula's rounded up to two equal sequences", () => {
+    for (const c of f.cases) {
+      const r = compute({ delta: c.ratio, withinSubjectSd: 1, alpha: c.alpha, power: c.power, sides: c.sides, method: "normal" });
+      expect(r.total, JSON.stringify(c)).toBe(2 * Math.ceil(c.total / 2));
+    }
+  });
+  it("exact t needs at least as many subjects as the normal approximation", () => {
+    for (const c of f.cases) {
+      const inputs = { delta: c.ratio, withinSubjectSd: 1, alpha: c.alpha, power: c.power, sides: c.sides };
+      expect(compute(inputs).total).toBeGreaterThanOrEqual(compute({ ...inputs, method: "normal" }).total);
+    }
+  });
+});
+
+describe("variance convention", () => {
+  it("SE of the period-adjusted difference is σw √(2/n) for n split evenly (Jones & Kenward 2014, §2.3)", () => {
+    expectClose(crossoverStandardError(10, { n1: 15, n2: 15 }), 10 * Math.sqrt(2 / 30), 1e-14, {});
+  });
+  it("a crossover needs a quarter of the subjects of a parallel trial whose SD equals σw (common practice, no source)", () => {
+    // Parallel groups, normal theory: 4σ²(z + z)²/δ² in total; crossover: 2σw²(z + z)²/δ².
+    const r = compute({ delta: 0.25, withinSubjectSd: 1, method: "normal", power: 0.8 });
+    const z = normalQuantile(0.975) + normalQuantile(0.8);
+    const parallelTotal = (4 * z * z) / 0.0625;
+    expect(Math.abs(r.total - parallelTotal / 2)).toBeLessThanOrEqual(2);
+  });
+});
+
+describe("design", () => {
+  it("solving for the difference inverts the power", () => {
+    const r = compute({ solveFor: "difference", n1: 12, n2: 11, withinSubjectSd: 4, power: 0.85 });
+    const back = compute({ solveFor: "power", n1: 12, n2: 11, withinSubjectSd: 4, delta: r.delta });
+    expectClose(back.power, 0.85, 1e-8, { delta: r.delta });
+  });
+  it("dropout inflates each sequence", () => {
+    const r = compute({ delta: 3, withinSubjectSd: 5, dropout: 0.2 });
+    expect(r.enrolled1).toBe(Math.ceil(r.n1 / 0.8));
+    expect(r.enrolledTotal).toBe(r.enrolled1 + r.enrolled2);
+  });
+  it("the report states the variance convention and that the washout must rule out carryover", () => {
+    const input = parse(crossover2x2.example);
+    const r = crossover2x2.compute(input);
+    expect(JSON.parse(JSON.stringify(r))).toEqual(r);
+    const text = JSON.stringify(crossover2x2.document(input, r));
+    expect(text).toMatch(/washout/i);
+    expect(text).toMatch(/carryover/);
+    expect(text).toMatch(/within-subject standard deviation/);
+    expect(crossover2x2.cautions.join(" ")).toMatch(/carryover/);
+  });
+  it("is infeasible when no size up to the bound reaches the power, naming it", () => {
+    try {
+      compute({ delta: 0.001, withinSubjectSd: 10, power: 0.99 });
+      expect.fail("expected an infeasible design");
+    } catch (error) {
+      expect(error).toBeInstanceOf(InfeasibleDesignError);
+      expect((error as InfeasibleDesignError).details.bound).toBe(100000);
+    }
+  });
+});
+
+describe("validation", () => {
+  it("names the field with a sentence", () => {
+    expect(issuesOf({ delta: 2, withinSubjectSd: 0 }).map((i) => i.path)).toContain("withinSubjectSd");
+    expect(issuesOf({ hypothesis: "non-inferiority", delta: 0, withinSubjectSd: 3, margin: -1, sides: 1 }).find((i) => i.path === "margin")?.message).toMatch(/positive/);
+    expect(issuesOf({ delta: 2, withinSubjectSd: 3, power: 0.04, alpha: 0.05 }).find((i) => i.path === "power")?.message).toMatch(/exceed alpha/);
+    expect(issuesOf({ delta: -2, withinSubjectSd: 3, sides: 1 }).map((i) => i.path)).toContain("delta");
+    expect(issuesOf({ hypothesis: "non-inferiority", delta: -3, margin: 2, withinSubjectSd: 3, sides: 1 }).map((i) => i.path)).toContain("delta");
+    expect(issuesOf({ solveFor: "power", delta: 2, withinSubjectSd: 3 }).map((i) => i.path)).toEqual(expect.arrayContaining(["n1", "n2"]));
+    // Both sequences are randomized equally: an allocation ratio is an unknown field.
+    const unknown = crossover2x2.input.safeParse({ delta: 2, withinSubjectSd: 3, allocationRatio: 2 });
+    expect(unknown.success ? [] : unknown.error.issues.flatMap((i) => (i.code === "unrecognized_keys" ? i.keys : []))).toContain("allocationRatio");
+  });
+});
