@@ -39,25 +39,43 @@ function kronrod(f: (x: number) => number, a: number, b: number): { value: numbe
 interface QuadratureOptions {
   absoluteTolerance?: number;
   relativeTolerance?: number;
-  maxDepth?: number;
+  /** Most panels kept; bounds the work whatever the integrand (QUADPACK's limit). */
+  maxPanels?: number;
+}
+
+interface Panel {
+  lo: number;
+  hi: number;
+  value: number;
+  error: number;
 }
 
 /**
- * ∫_a^b f(x) dx, bisecting each panel until its Gauss-Kronrod error estimate
- * is within its share of the tolerance.
+ * ∫_a^b f(x) dx by global adaptivity (as QUADPACK's qag): the panel with the
+ * largest error estimate is bisected until the summed estimate meets the
+ * tolerance or the panel budget is spent, so the cost is bounded.
  */
 export function integrate(f: (x: number) => number, a: number, b: number, options: QuadratureOptions = {}): number {
   const absTol = options.absoluteTolerance ?? 1e-12;
   const relTol = options.relativeTolerance ?? 1e-12;
-  const maxDepth = options.maxDepth ?? 40;
-  const recurse = (lo: number, hi: number, tol: number, depth: number, whole: { value: number; error: number }): number => {
-    if (whole.error <= tol || depth >= maxDepth) return whole.value;
-    const mid = (lo + hi) / 2;
-    const left = kronrod(f, lo, mid);
-    const right = kronrod(f, mid, hi);
-    return recurse(lo, mid, tol / 2, depth + 1, left) + recurse(mid, hi, tol / 2, depth + 1, right);
-  };
+  const maxPanels = options.maxPanels ?? 500;
+  if (a === b) return 0;
   const first = kronrod(f, a, b);
-  const tol = Math.max(absTol, relTol * Math.abs(first.value));
-  return recurse(a, b, tol, 0, first);
+  const panels: Panel[] = [{ lo: a, hi: b, ...first }];
+  let total = first.value;
+  let error = first.error;
+  while (panels.length < maxPanels && error > Math.max(absTol, relTol * Math.abs(total))) {
+    let worst = 0;
+    for (let i = 1; i < panels.length; i++) if (panels[i]!.error > panels[worst]!.error) worst = i;
+    const p = panels[worst]!;
+    const mid = (p.lo + p.hi) / 2;
+    const left = { lo: p.lo, hi: mid, ...kronrod(f, p.lo, mid) };
+    const right = { lo: mid, hi: p.hi, ...kronrod(f, mid, p.hi) };
+    total += left.value + right.value - p.value;
+    error += left.error + right.error - p.error;
+    panels[worst] = left;
+    panels.push(right);
+  }
+  // Re-sum to shed the rounding that the running updates accumulate.
+  return panels.reduce((sum, p) => sum + p.value, 0);
 }

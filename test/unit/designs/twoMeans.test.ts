@@ -1,0 +1,127 @@
+// two-means against published values and R base stats fixtures
+// (test/fixtures/two-means/generate.R).
+import { describe, expect, it } from "vitest";
+import { expectClose, loadFixture } from "../../support/fixtures.js";
+import { twoMeans, twoMeansPower } from "../../../src/designs/twoMeans.js";
+import { InfeasibleDesignError } from "../../../src/designs/design.js";
+
+const solve = (inputs: Record<string, unknown>) => twoMeans.compute(twoMeans.input.parse(inputs));
+
+describe("two-means: published values", () => {
+  it("0.5 SD, two-sided 0.05, power 0.80 needs 64 per group by the t test (Cohen 1988, table 2.4.1)", () => {
+    const r = solve({ delta: 0.5, sd: 1, alpha: 0.05, power: 0.8 });
+    expect(r.n1).toBe(64);
+    expect(r.n2).toBe(64);
+  });
+  it("the same by the normal approximation needs 63 per group (2(1.96 + 0.8416)² / 0.25 = 62.8, handbook formula)", () => {
+    const r = solve({ delta: 0.5, sd: 1, alpha: 0.05, power: 0.8, method: "normal" });
+    expect(r.n1).toBe(63);
+  });
+  it("a difference of 0.8 SD needs 26 per group and 0.2 SD needs 394 (Cohen 1988, table 2.4.1)", () => {
+    expect(solve({ delta: 0.8, sd: 1, power: 0.8 }).n1).toBe(26);
+    expect(solve({ delta: 0.2, sd: 1, power: 0.8 }).n1).toBe(394);
+  });
+});
+
+describe("two-means: R stats::power.t.test and pt(ncp) fixtures", () => {
+  it("equal allocation, one- and two-sided, matches the ceiling of power.t.test", () => {
+    const f = loadFixture<{ delta: number; sd: number; alpha: number; power: number; sides: 1 | 2; n: number; achievedPower: number }>("two-means/superiority-equal.json");
+    expect(f.cases.length).toBeGreaterThan(20);
+    for (const c of f.cases) {
+      const r = solve({ delta: c.delta, sd: c.sd, alpha: c.alpha, power: c.power, sides: c.sides });
+      expect(r.n1, JSON.stringify(c)).toBe(c.n);
+      expectClose(r.power, c.achievedPower, f.tolerance, c);
+    }
+  });
+  it("power at given n matches power.t.test", () => {
+    const f = loadFixture<{ n: number; delta: number; sd: number; alpha: number; sides: 1 | 2; power: number }>("two-means/power-at-n.json");
+    for (const c of f.cases) {
+      const r = solve({ solveFor: "power", delta: c.delta, sd: c.sd, alpha: c.alpha, sides: c.sides, n1: c.n, n2: c.n });
+      expectClose(r.power, c.power, f.tolerance, c);
+    }
+  });
+  it("unequal allocation matches the search over pt(ncp) in R", () => {
+    const f = loadFixture<{ allocationRatio: number; delta: number; sd: number; alpha: number; power: number; sides: 1 | 2; n1: number; n2: number; achievedPower: number }>("two-means/unequal-allocation.json");
+    for (const c of f.cases) {
+      const r = solve({ delta: c.delta, sd: c.sd, alpha: c.alpha, power: c.power, sides: c.sides, allocationRatio: c.allocationRatio });
+      expect([r.n1, r.n2], JSON.stringify(c)).toEqual([c.n1, c.n2]);
+      expectClose(r.power, c.achievedPower, f.tolerance, c);
+    }
+  });
+  it("normal approximation matches the pnorm search in R", () => {
+    const f = loadFixture<{ delta: number; sd: number; alpha: number; power: number; sides: 1 | 2; n: number; achievedPower: number }>("two-means/normal-approximation.json");
+    for (const c of f.cases) {
+      const r = solve({ delta: c.delta, sd: c.sd, alpha: c.alpha, power: c.power, sides: c.sides, method: "normal" });
+      expect(r.n1, JSON.stringify(c)).toBe(c.n);
+      expectClose(r.power, c.achievedPower, f.tolerance, c);
+    }
+  });
+  it("non-inferiority matches power.t.test with delta + margin, one-sided", () => {
+    const f = loadFixture<{ delta: number; margin: number; sd: number; alpha: number; power: number; n: number; achievedPower: number }>("two-means/non-inferiority.json");
+    for (const c of f.cases) {
+      const r = solve({ hypothesis: "non-inferiority", sides: 1, delta: c.delta, margin: c.margin, sd: c.sd, alpha: c.alpha, power: c.power });
+      expect(r.n1, JSON.stringify(c)).toBe(c.n);
+      expectClose(r.power, c.achievedPower, f.tolerance, c);
+    }
+  });
+  it("equivalence (TOST) exact power matches integrate() over the chi-square law in R", () => {
+    const f = loadFixture<{ delta: number; margin: number; sd: number; alpha: number; power?: number; n?: number; achievedPower?: number; powerAtN?: number }>("two-means/equivalence.json");
+    for (const c of f.cases) {
+      if (c.powerAtN !== undefined) {
+        const input = twoMeans.input.parse({ hypothesis: "equivalence", sides: 1, delta: c.delta, margin: c.margin, sd: c.sd, alpha: c.alpha, solveFor: "power", n1: c.n, n2: c.n });
+        expectClose(twoMeansPower(input, { n1: c.n!, n2: c.n! }, c.delta), c.powerAtN, f.tolerance, c);
+        continue;
+      }
+      const r = solve({ hypothesis: "equivalence", sides: 1, delta: c.delta, margin: c.margin, sd: c.sd, alpha: c.alpha, power: c.power });
+      expect(r.n1, JSON.stringify(c)).toBe(c.n);
+      expectClose(r.power, c.achievedPower!, f.tolerance, c);
+    }
+  });
+});
+
+describe("two-means: other modes", () => {
+  it("the detectable difference at n gives back the target power", () => {
+    const r = solve({ solveFor: "difference", sd: 2, power: 0.9, n1: 50, n2: 75 });
+    const check = solve({ solveFor: "power", delta: r.delta, sd: 2, n1: 50, n2: 75 });
+    expectClose(check.power, 0.9, 1e-8, { delta: r.delta });
+    // And it agrees with the sample-size mode: solving n for that difference gives back about 50 in the smaller arm.
+    const n = solve({ delta: r.delta, sd: 2, power: 0.9, allocationRatio: 1.5 });
+    expect(n.n1).toBe(50);
+  });
+  it("dropout inflates each arm to ceil(n / (1 - dropout)) (common practice)", () => {
+    const r = solve({ delta: 0.5, sd: 1, dropout: 0.15 });
+    expect(r.enrolled1).toBe(Math.ceil(64 / 0.85));
+    expect(r.enrolledTotal).toBe(2 * Math.ceil(64 / 0.85));
+  });
+  it("the power curve rises with n and passes the target at the chosen size", () => {
+    const r = solve({ delta: 0.5, sd: 1 });
+    for (let i = 1; i < r.powerCurve.length; i++) expect(r.powerCurve[i]![1]).toBeGreaterThanOrEqual(r.powerCurve[i - 1]![1]);
+    const atN = r.powerCurve.find(([n]) => n === r.total);
+    expect(atN?.[1]).toBeGreaterThanOrEqual(0.8);
+    const below = r.powerCurve.find(([n]) => n === r.total - 2);
+    if (below) expect(below[1]).toBeLessThan(0.8);
+  });
+  it("an effect too small for the size bound is infeasible, naming the bound", () => {
+    expect(() => solve({ delta: 0.001, sd: 10, power: 0.99 })).toThrow(InfeasibleDesignError);
+  });
+  it("cross-field rules name their field", () => {
+    const bad = twoMeans.input.safeParse({ hypothesis: "non-inferiority", sides: 2, delta: 0, sd: 1 });
+    expect(bad.success).toBe(false);
+    const paths = bad.error!.issues.map((i) => i.path.join("."));
+    expect(paths).toContain("margin");
+    expect(paths).toContain("sides");
+  });
+  it("the example computes and its question names the numbers", () => {
+    const input = twoMeans.input.parse(twoMeans.example);
+    const r = twoMeans.compute(input);
+    expect(r.n1).toBeGreaterThan(0);
+    expect(twoMeans.question(input)).toContain(String(input.delta));
+  });
+});
+
+describe("two-means: normalization", () => {
+  it("sides defaults to 2 for superiority and 1 for non-inferiority and equivalence", () => {
+    expect(twoMeans.input.parse({ delta: 1, sd: 1 }).sides).toBe(2);
+    expect(twoMeans.input.parse({ hypothesis: "non-inferiority", delta: 0, margin: 1, sd: 1 }).sides).toBe(1);
+  });
+});
