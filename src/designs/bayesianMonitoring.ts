@@ -344,10 +344,17 @@ function scheduleText(input: BayesianMonitoringInput): string {
 }
 
 function runSentence(run: BoundaryRun, direction: "at-least" | "at-most", event: string): string {
-  const span = run.fromPatients === run.toPatients ? `the first ${run.fromPatients}` : `the first ${run.fromPatients} to ${run.toPatients}`;
-  return direction === "at-least"
-    ? `Stop if ${run.events} or more of ${span} patients have a ${event}`
-    : `Stop if ${run.events} or fewer of ${span} patients have a ${event}`;
+  const span = run.fromPatients === run.toPatients ? `${run.fromPatients}` : `${run.fromPatients} to ${run.toPatients}`;
+  const what = direction === "at-least"
+    ? `${run.events} or more have had a ${event}`
+    : run.events === 0 ? `none has had a ${event}` : `${run.events} or fewer have had a ${event}`;
+  return `After ${span} patients: stop if ${what}`;
+}
+
+function countText(events: number, patients: number, direction: "at-least" | "at-most", event: string): string {
+  const plural = event === "toxicity" ? "toxicities" : "responses";
+  if (direction === "at-least") return `${events} or more ${events === 1 ? event : plural} among the first ${patients} patients`;
+  return events === 0 ? `no ${event} among the first ${patients} patients` : `at most ${events} ${events === 1 ? event : plural} among the first ${patients} patients`;
 }
 
 function documentBayesianMonitoring(input: BayesianMonitoringInput, r: BayesianMonitoringResult): Section[] {
@@ -367,7 +374,7 @@ function documentBayesianMonitoring(input: BayesianMonitoringInput, r: BayesianM
         const l = at(input.limit!);
         return [
           { label: "Rule", value: ruleText, key: true },
-          { label: "Earliest possible stop", value: `${firstRun.events} ${event === "toxicity" ? "toxicities" : "responses"} ${r.direction === "at-least" ? "or more" : "or fewer"} among the first ${firstRun.fromPatients}`, key: true },
+          { label: "Earliest possible stop", value: countText(firstRun.events, firstRun.fromPatients, r.direction, event), key: true },
           { label: `P(rule stops) at a true rate of ${input.limit}`, value: l.probabilityOfStopping, digits: 4, key: true },
           { label: `Expected patients at a true rate of ${input.limit}`, value: l.expectedSampleSize, digits: 2, key: true },
           { label: "Prior", value: prior, note: `mean ${fmt(input.priorA / (input.priorA + input.priorB))}, weight ${input.priorA + input.priorB} patients` },
@@ -389,7 +396,7 @@ function documentBayesianMonitoring(input: BayesianMonitoringInput, r: BayesianM
       })();
 
   const runRows: Cell[][] = r.runs.map((run) => [runSentence(run, r.direction, event), run.events, run.fromPatients, run.toPatients]);
-  if (!posterior) runRows.push([`At ${input.maxN} patients: promising if ${r.finalSuccessCount} or more have a response`, r.finalSuccessCount, input.maxN, input.maxN]);
+  if (!posterior) runRows.push([`After ${input.maxN} patients: promising if ${r.finalSuccessCount} or more have had a response`, r.finalSuccessCount, input.maxN, input.maxN]);
 
   const ocColumns = posterior
     ? [
@@ -408,11 +415,11 @@ function documentBayesianMonitoring(input: BayesianMonitoringInput, r: BayesianM
     ? [c.rate, c.probabilityOfStopping, c.probabilityOfEarlyTermination, c.expectedSampleSize]
     : [c.rate, c.probabilityPromising, c.probabilityOfEarlyTermination, c.expectedSampleSize]);
 
-  const runsText = r.runs.map((run) => runSentence(run, r.direction, event).replace(/^Stop/, "stop")).join("; ");
+  const runsText = r.runs.map((run) => runSentence(run, r.direction, event).replace(/^After/, "after")).join("; ");
   const protocol = posterior
     ? (() => {
         const l = at(input.limit!);
-        return `${event === "toxicity" ? "Toxicity" : "Response"} will be monitored by the Bayesian rule of Thall, Simon & Estey (1995): with a ${prior} prior for the ${event} rate, the trial will ${ruleText.replace(/^stop/, "stop")}, evaluated ${scheduleText(input)}. ` +
+        return `${event === "toxicity" ? "Toxicity" : "Response"} will be monitored by the Bayesian rule of Thall, Simon & Estey (1995): with a ${prior} prior for the ${event} rate, the trial will ${ruleText}, evaluated ${scheduleText(input)}. ` +
           `Equivalently: ${runsText}. ` +
           `Computed exactly, if the true ${event} rate equals ${input.limit} the rule stops the trial with probability ${fmt(l.probabilityOfStopping)} (${fmt(l.probabilityOfEarlyTermination)} before ${input.maxN} patients) and the expected number of patients is ${fmt(l.expectedSampleSize, 1)}; operating characteristics at other true rates are tabulated.`;
       })()

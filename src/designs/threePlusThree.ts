@@ -227,7 +227,7 @@ function documentThreePlusThree(input: ThreePlusThreeInput, r: ThreePlusThreeRes
   const labels = input.doses;
   const selected = r.mostLikelySelection >= 0 ? labels[r.mostLikelySelection]! : "no dose";
   const ruleText = input.mtdRule === "next-lower-dose-with-six"
-    ? "the MTD is the highest dose at which at most 1 of 6 patients has a DLT: when a dose proves too toxic and the next lower dose has only 3 patients, 3 more are treated there, and 2 or more DLTs among its 6 patients lead to a further de-escalation"
+    ? "the MTD is the next lower dose, which must have 6 patients with at most 1 DLT: if it has only 3, 3 more are treated there, and 2 or more DLTs among its 6 patients lead to a further de-escalation"
     : "the MTD is the dose below the first dose at which 2 or more patients have a DLT";
   const scenario = labels.map((l, i) => `${l}: ${input.dltProbabilities[i]}`).join("; ");
   const selectionText = labels.map((l, i) => `${l} ${pct(r.selectionProbability[i]!)}`).join(", ");
