@@ -47,7 +47,7 @@ import { studentTQuantile } from "../stats/studentT.js";
 import { noncentralTCdf, noncentralTSurvival } from "../stats/noncentralT.js";
 import { type TwoMeansInput, twoMeansPower } from "./twoMeans.js";
 import { twoProportionsPower } from "./shared/twoProportionsPower.js";
-import { curveSizes, inflateForDropout, smallestSampleSize } from "./shared/sizing.js";
+import { curveSizes, detectableEffect, inflateForDropout, smallestSampleSize } from "./shared/sizing.js";
 import { comparativeCommonFields, probabilityField } from "./shared/fields.js";
 
 const MAX_PER_CELL = 50000;
@@ -168,6 +168,8 @@ export interface Factorial2x2Result {
   enrolledTotal: number;
   /** The main effect whose size sets the design (the larger requirement), or null when solving for power. */
   sizedBy: Factor | null;
+  /** Means: the smallest main effect (outcome units) detected with the target power at this size and level. */
+  detectableMainEffect: number | null;
   mainEffects: MainEffectResult[];
   interaction: InteractionResult;
   /** [total evaluable, power] for each main effect and for the interaction. */
@@ -192,17 +194,20 @@ function mainEffectSize(input: Factorial2x2Input, factor: Factor): number {
   return withFactor - without;
 }
 
+/** Power of the margins' t (or normal) test for a difference in means `effect`, 2m against 2m. */
+function marginMeansPower(input: Factorial2x2Input, effect: number, perCell: number, level: number): number {
+  const marginal: TwoMeansInput = {
+    solveFor: "power", hypothesis: "superiority", delta: effect, sd: input.sd!,
+    method: input.method === "normal" ? "normal" : "exact-t", alpha: level, power: input.power, sides: input.sides,
+    allocationRatio: 1, dropout: 0,
+  };
+  return twoMeansPower(marginal, { n1: 2 * perCell, n2: 2 * perCell }, effect);
+}
+
 /** Power of a main-effect test on the margins, 2m against 2m, at level `level`. */
 export function mainEffectPower(input: Factorial2x2Input, factor: Factor, perCell: number, level: number): number {
   const margins = { n1: 2 * perCell, n2: 2 * perCell };
-  if (input.outcome === "means") {
-    const marginal: TwoMeansInput = {
-      solveFor: "power", hypothesis: "superiority", delta: mainEffectSize(input, factor), sd: input.sd!,
-      method: input.method === "normal" ? "normal" : "exact-t", alpha: level, power: input.power, sides: input.sides,
-      allocationRatio: 1, dropout: 0,
-    };
-    return twoMeansPower(marginal, margins, marginal.delta!);
-  }
+  if (input.outcome === "means") return marginMeansPower(input, mainEffectSize(input, factor), perCell, level);
   const [p1, p2] = marginRates(input, factor);
   return twoProportionsPower(p1, p2, margins, { hypothesis: "superiority", sides: input.sides, alpha: level }, input.method === "normal-corrected" ? "normal-corrected" : "normal");
 }
@@ -281,6 +286,10 @@ export function computeFactorial2x2(input: Factorial2x2Input): Factorial2x2Resul
     powerUnderHolm: input.multiplicity === "holm" ? holm(factor, factor === "A" ? "B" : "A", nPerCell) : null,
     marginRates: input.outcome === "proportions" ? marginRates(input, factor) : null,
   }));
+  // The ceiling is far beyond any detectable effect: 50 standard errors of a main effect.
+  const detectableMainEffect = input.outcome === "means"
+    ? detectableEffect((e) => marginMeansPower(input, e, nPerCell, level), input.power, 0, (50 * input.sd!) / Math.sqrt(nPerCell))
+    : null;
   const interactionPerCell = requiredPerCell((m) => interactionPower(input, m), input.power, "interaction");
   const enrolledPerCell = inflateForDropout(nPerCell, input.dropout);
   const sizes = curveSizes(nPerCell, 2);
@@ -291,6 +300,7 @@ export function computeFactorial2x2(input: Factorial2x2Input): Factorial2x2Resul
     enrolledPerCell,
     enrolledTotal: 4 * enrolledPerCell,
     sizedBy,
+    detectableMainEffect,
     mainEffects,
     interaction: {
       effect: input.interaction,
@@ -368,6 +378,7 @@ function documentFactorial(input: Factorial2x2Input, r: Factorial2x2Result): Sec
             { label: "Total to detect the interaction", value: r.interaction.requiredTotal === null ? `> ${4 * MAX_PER_CELL}` : r.interaction.requiredTotal, key: true },
             { label: "Level of each main-effect test", value: a.alpha, digits: 4, note: input.multiplicity === "none" ? "no adjustment" : input.multiplicity === "bonferroni" ? "Bonferroni, α/2" : "Holm's first step, α/2" },
             { label: "Power for the interaction at this size", value: r.interaction.power, digits: 4 },
+            ...(r.detectableMainEffect === null ? [] : [{ label: "Smallest main effect detectable at this size", value: r.detectableMainEffect, digits: 4, note: `with ${pct(input.power, 0)} power at level ${a.alpha}` }]),
           ],
         },
         {
@@ -459,7 +470,7 @@ function documentFactorial(input: Factorial2x2Input, r: Factorial2x2Result): Sec
 
 export const factorial2x2: Design<Factorial2x2Input, Factorial2x2Result> = {
   id: "factorial-2x2",
-  version: 1,
+  version: 2,
   stage: "comparative",
   title: "Factorial 2×2 (two treatments in one trial)",
   summary: "Participants per cell for testing two treatments' main effects at the margins of a 2×2 factorial trial, with a choice of multiplicity adjustment, and the size an interaction would need beside it; means or proportions.",

@@ -52,10 +52,12 @@ describe("factorial-2x2: handbook facts", () => {
 
 describe("factorial-2x2: R base stats fixtures", () => {
   it("means, exact t: main effects from power.t.test on the margins, interaction from the noncentral t on 4m − 4 df", () => {
-    const f = loadFixture<SizeCase & { sd: number; effectA: number; effectB: number }>("factorial-2x2/means-exact.json");
+    const f = loadFixture<SizeCase & { sd: number; effectA: number; effectB: number; detectableMainEffect: number }>("factorial-2x2/means-exact.json");
     expect(f.cases.length).toBeGreaterThan(40);
     for (const c of f.cases) {
-      checkSizes(c, { sd: c.sd, effectA: c.effectA, effectB: c.effectB, alpha: c.alpha, power: c.power, sides: c.sides, multiplicity: c.multiplicity }, f.tolerance);
+      const inputs = { sd: c.sd, effectA: c.effectA, effectB: c.effectB, alpha: c.alpha, power: c.power, sides: c.sides, multiplicity: c.multiplicity };
+      checkSizes(c, inputs, f.tolerance);
+      expectClose(solve(inputs).detectableMainEffect!, c.detectableMainEffect, f.tolerance, c);
     }
   });
   it("means, normal approximation (pnorm)", () => {
@@ -73,6 +75,14 @@ describe("factorial-2x2: R base stats fixtures", () => {
         ...(c.interaction === null ? {} : { interaction: c.interaction }),
         alpha: c.alpha, power: c.power, sides: c.sides, multiplicity: c.multiplicity,
       }, f.tolerance);
+    }
+  });
+  it("proportions with continuity correction: power on the margins matches the corrected statistic written out in R", () => {
+    const f = loadFixture<{ controlRate: number; rateA: number; rateB: number; nPerCell: number; alpha: number; sides: 1 | 2; multiplicity: string; powerA: number; powerB: number }>("factorial-2x2/proportions-corrected.json");
+    for (const c of f.cases) {
+      const r = solve({ outcome: "proportions", method: "normal-corrected", solveFor: "power", nPerCell: c.nPerCell, controlRate: c.controlRate, rateA: c.rateA, rateB: c.rateB, alpha: c.alpha, sides: c.sides, multiplicity: c.multiplicity });
+      expectClose(r.mainEffects[0]!.power, c.powerA, f.tolerance, c);
+      expectClose(r.mainEffects[1]!.power, c.powerB, f.tolerance, c);
     }
   });
   it("power under Holm's procedure agrees with a seeded simulation of the whole trial in R", () => {
