@@ -47,7 +47,12 @@ export async function startCatalogPage(root: HTMLElement): Promise<void> {
       : shown === 0 ? "No design matches. Try fewer or other words." : `${shown} of ${designs.length} designs match.`;
   };
   search.addEventListener("input", filter);
+  const jumps = h("nav", { class: "stage-jumps", "aria-label": "Stages" }, h("ul", {}, ...STAGES.map(({ stage, title }) => {
+    const n = designs.filter((d) => d.stage === stage).length;
+    return h("li", {}, h("a", { href: `#stage-${stage}` }, title, h("span", { class: "n" }, ` ${n}`)));
+  })));
   replaceChildren(root,
+    jumps,
     h("div", { class: "search" },
       h("label", { for: "search" }, "Find a design"),
       h("p", { id: "search-help", class: "help" }, "Type a method, an outcome or a word from the summary: “response rate”, “dose”, “means”."),

@@ -57,6 +57,7 @@ class DesignPage {
     this.formElement = h("form", { id: "inputs", class: "inputs", novalidate: true, "aria-labelledby": "inputs-heading" },
       h("h2", { id: "inputs-heading" }, "Inputs"),
       h("p", { class: "help" }, "Results follow your changes. Every field is explained below its name."),
+      h("p", { class: "jump" }, h("a", { href: "#result" }, "Go to the result")),
       this.summary, this.form.element,
       h("div", { class: "form-actions" }, compute, reset));
     this.status = h("p", { id: "status", class: "status", role: "status" });
@@ -77,7 +78,7 @@ class DesignPage {
       h("p", { class: "help", id: "label-help" }, "Shown as the report’s title, for example “TW-417 phase II, site group B”. Part of the link."),
       h("div", { class: "with-button" }, this.labelInput, this.freezeButton),
       this.frozen);
-    this.result = h("section", { id: "result", class: "result", "aria-labelledby": "result-heading" },
+    this.result = h("section", { id: "result", class: "result", tabindex: -1, "aria-labelledby": "result-heading" },
       h("h2", { id: "result-heading" }, "Result"), this.status, this.progress, this.problem, this.head, freezeBox, this.body);
     replaceChildren(root,
       h("nav", { class: "crumbs", "aria-label": "Breadcrumb" }, h("a", { href: "/" }, "All designs"), h("span", { "aria-hidden": "true" }, " / "), stageTitle(design.stage)),

@@ -13,10 +13,12 @@ function keyFacts(sections: Section[]): HTMLElement | null {
 }
 
 function tableElement(table: Table): HTMLElement {
-  const head = h("tr", {}, ...table.columns.map((c) => h("th", { scope: "col" }, c.label, c.unit ? h("span", { class: "unit" }, ` (${c.unit})`) : null)));
+  // A column of numbers is right-aligned, its heading too, so digits line up under it.
+  const numeric = table.columns.map((_, i) => i > 0 && table.rows.some((r) => typeof r[i] === "number") && table.rows.every((r) => typeof r[i] === "number" || r[i] === null));
+  const head = h("tr", {}, ...table.columns.map((c, i) => h("th", { scope: "col", class: numeric[i] ? "num" : undefined }, c.label, c.unit ? h("span", { class: "unit" }, ` (${c.unit})`) : null)));
   const rows = table.rows.map((row) => h("tr", {}, ...row.map((cell, i) => {
     const text = formatCell(cell, table.columns[i]?.digits);
-    return i === 0 ? h("th", { scope: "row" }, text) : h("td", { class: typeof cell === "number" ? "num" : undefined }, text);
+    return i === 0 ? h("th", { scope: "row" }, text) : h("td", { class: numeric[i] || typeof cell === "number" ? "num" : undefined }, text);
   })));
   const captionId = `caption-${table.id}`;
   return h("div", { class: "table-scroll", role: "region", tabindex: 0, "aria-labelledby": captionId },
@@ -34,7 +36,7 @@ function blockElement(block: Block, status: (message: string) => void): HTMLElem
     case "table":
       return tableElement(block.table);
     case "chart":
-      return h("figure", { class: "chart-figure", "data-chart": block.chart.id }, chartElement(block.chart), h("figcaption", {}, block.chart.title));
+      return h("figure", { class: "chart-figure", "data-chart": block.chart.id }, chartElement(block.chart, "live"), h("figcaption", {}, block.chart.title));
     case "paragraph":
       return h("p", {}, block.text);
     case "protocol": {

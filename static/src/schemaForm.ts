@@ -42,6 +42,10 @@ function choicesOf(schema: JsonSchema): Choice[] | null {
 
 /** Bounds in words for the help line, leaving out the unbounded limits zod writes for integers. */
 function boundsText(schema: JsonSchema): string {
+  const stated = (bound: number | undefined): boolean => bound !== undefined && new RegExp(`(^|[^\\d.])${String(bound).replace(".", "\\.")}(?![\\d.]*\\d)`).test(schema.description ?? "");
+  const lowBound = schema.exclusiveMinimum ?? schema.minimum;
+  const highBound = schema.exclusiveMaximum ?? schema.maximum;
+  if (stated(lowBound) && stated(highBound)) return "";
   const low = schema.exclusiveMinimum !== undefined ? `greater than ${schema.exclusiveMinimum}` : schema.minimum !== undefined && Math.abs(schema.minimum) < HUGE ? `at least ${schema.minimum}` : "";
   const high = schema.exclusiveMaximum !== undefined ? `less than ${schema.exclusiveMaximum}` : schema.maximum !== undefined && Math.abs(schema.maximum) < HUGE ? `at most ${schema.maximum}` : "";
   if (low && high) return `${low.charAt(0).toUpperCase()}${low.slice(1)} and ${high}.`;
@@ -100,6 +104,7 @@ function scalarControl(path: Path, schema: JsonSchema, optional: boolean, cellLa
     };
   }
   const type = typeOf(schema);
+  if (type === "array") return inlineListControl(path, schema, optional, cellLabel);
   if (type === "number" || type === "integer") {
     const input = numberInput(id, schema, cellLabel);
     return {
@@ -117,6 +122,30 @@ function scalarControl(path: Path, schema: JsonSchema, optional: boolean, cellLa
     control: input,
     read: () => (input.value === "" && optional ? { omit: true } : { value: input.value }),
     write: (v) => { input.value = typeof v === "string" ? v : v === undefined || v === null ? "" : String(v); },
+  };
+}
+
+/**
+ * A list inside a table cell (true DLT probabilities of one scenario, say): one
+ * text box, items separated by commas. Numbers may also be separated by spaces.
+ */
+function inlineListControl(path: Path, schema: JsonSchema, optional: boolean, cellLabel?: string): { control: HTMLElement; read(): Reading; write(v: unknown): void } {
+  const itemType = schema.items ? typeOf(schema.items) : undefined;
+  const numeric = itemType === "number" || itemType === "integer";
+  const input = h("input", { id: controlId(path), type: "text", autocomplete: "off", spellcheck: "false", inputmode: numeric ? "decimal" : undefined, class: "inline-list", "aria-label": cellLabel, placeholder: numeric ? "0.1, 0.2, 0.3" : "first, second" });
+  return {
+    control: input,
+    read: () => {
+      const parts = input.value.split(numeric ? /[,;\s]+/ : /,/).map((p) => p.trim()).filter((p) => p !== "");
+      if (parts.length === 0) return optional ? { omit: true } : { value: [] };
+      if (!numeric) return { value: parts };
+      const values = parts.map(Number);
+      const bad = values.findIndex((v) => !Number.isFinite(v));
+      if (bad >= 0) return { problem: `“${parts[bad]}” is not a number; separate numbers with commas.`, at: path.slice(1) };
+      if (itemType === "integer" && values.some((v) => !Number.isInteger(v))) return { problem: "Enter whole numbers.", at: path.slice(1) };
+      return { value: values };
+    },
+    write: (v) => { input.value = Array.isArray(v) ? v.join(", ") : ""; },
   };
 }
 
@@ -146,7 +175,7 @@ function radioGroup(key: string, choices: Choice[], optional: boolean): { elemen
 }
 
 /** A list of numbers or texts: one box per item, with buttons to add and remove items. */
-function listWidget(key: string, label: string, schema: JsonSchema): Widget {
+function listWidget(key: string, label: string, schema: JsonSchema, optional: boolean): Widget {
   const itemSchema = schema.items ?? {};
   const list = h("ol", { class: "list-items" });
   const add = h("button", { type: "button", class: "small" }, `Add ${typeOf(itemSchema) === "string" ? "a label" : "a value"}`);
@@ -192,7 +221,7 @@ function listWidget(key: string, label: string, schema: JsonSchema): Widget {
         if ("omit" in r) return { problem: `Item ${i + 1} is empty: fill it in or remove it.`, at: [i] };
         values.push(r.value);
       }
-      return { value: values };
+      return values.length === 0 && optional ? { omit: true } : { value: values };
     },
     write: (v) => {
       rows.forEach((r) => r.item.remove());
@@ -205,7 +234,7 @@ function listWidget(key: string, label: string, schema: JsonSchema): Widget {
 }
 
 /** A list of records (observed data per dose, say): a small table, one row per record. */
-function tableWidget(key: string, label: string, schema: JsonSchema): Widget {
+function tableWidget(key: string, label: string, schema: JsonSchema, optional: boolean): Widget {
   const itemSchema = schema.items ?? {};
   const columns = Object.entries(itemSchema.properties ?? {});
   const required = new Set(itemSchema.required ?? []);
@@ -213,7 +242,9 @@ function tableWidget(key: string, label: string, schema: JsonSchema): Widget {
   const head = h("thead", {}, h("tr", {}, h("th", { scope: "col" }, "#"), ...columns.map(([name, s]) => h("th", { scope: "col", title: s.description ?? "" }, s.title ?? humanize(name))), h("th", { scope: "col" }, h("span", { class: "visually-hidden" }, "Actions"))));
   const add = h("button", { type: "button", class: "small" }, "Add a row");
   const legend = h("dl", { class: "column-help" }, ...columns.flatMap(([name, s]) => (s.description ? [h("dt", {}, s.title ?? humanize(name)), h("dd", {}, s.description)] : [])));
-  const element = h("div", { class: "table-editor" }, h("div", { class: "table-scroll" }, h("table", {}, head, body)), add, legend);
+  const table = h("table", {}, head, body);
+  const empty = h("p", { class: "note" }, "No rows yet.");
+  const element = h("div", { class: "table-editor" }, h("div", { class: "table-scroll" }, table), empty, add, legend);
   type Row = { tr: HTMLTableRowElement; cells: Array<{ name: string; control: HTMLElement; read(): Reading; write(v: unknown): void }> };
   let rows: Row[] = [];
   const renumber = (): void => {
@@ -227,11 +258,13 @@ function tableWidget(key: string, label: string, schema: JsonSchema): Widget {
       row.tr.querySelector("button")?.setAttribute("aria-label", `Remove row ${i + 1}`);
     });
     add.disabled = schema.maxItems !== undefined && rows.length >= schema.maxItems;
+    table.hidden = rows.length === 0;
+    empty.hidden = rows.length > 0;
   };
   const addRow = (value: Record<string, unknown>): void => {
     const i = rows.length;
     const cells = columns.map(([name, s]) => ({ name, ...scalarControl([key, i, name], s, !required.has(name), `Row ${i + 1}, ${s.title ?? humanize(name)}`) }));
-    const remove = h("button", { type: "button", class: "small quiet" }, "Remove");
+    const remove = h("button", { type: "button", class: "small quiet remove", title: "Remove this row" }, "✕");
     const tr = h("tr", {}, h("th", { scope: "row" }, String(i + 1)), ...cells.map((c) => h("td", {}, c.control)), h("td", {}, remove));
     const row: Row = { tr, cells };
     cells.forEach((c) => c.write(value[c.name]));
@@ -265,7 +298,7 @@ function tableWidget(key: string, label: string, schema: JsonSchema): Widget {
         }
         values.push(record);
       }
-      return { value: values };
+      return values.length === 0 && optional ? { omit: true } : { value: values };
     },
     write: (v) => {
       rows.forEach((r) => r.tr.remove());
@@ -348,10 +381,10 @@ export class SchemaForm {
       widget = { element: group.element, read: group.read, write: group.write, controlAt: () => group.first() };
       container = h("fieldset", { class: "field", "data-field": key, "aria-describedby": `${helpId} ${errorId}` }, h("legend", {}, ...labelText), help, group.element, error);
     } else if (type === "array" && (itemType === "object")) {
-      widget = tableWidget(key, label, schema);
+      widget = tableWidget(key, label, schema, optional);
       container = h("fieldset", { class: "field wide", "data-field": key, "aria-describedby": `${helpId} ${errorId}` }, h("legend", {}, ...labelText), help, widget.element, error);
     } else if (type === "array" && schema.items && (itemType === "number" || itemType === "integer" || itemType === "string" || choicesOf(schema.items))) {
-      widget = listWidget(key, label, schema);
+      widget = listWidget(key, label, schema, optional);
       container = h("fieldset", { class: "field", "data-field": key, "aria-describedby": `${helpId} ${errorId}` }, h("legend", {}, ...labelText), help, widget.element, error);
     } else if (choices || type === "number" || type === "integer" || type === "string" || type === "boolean") {
       const scalar = scalarControl([key], schema, optional);

@@ -126,6 +126,52 @@ describe("simon-two-stage from inputs to a frozen PDF", () => {
   });
 });
 
+describe("forms generated from every design's schema", () => {
+  it("send back each design's example exactly as the catalog gives it, and show its result", async () => {
+    const catalog = await (await fetch(`${base}/api/v1/designs`)).json() as { designs: Array<{ id: string; example: Record<string, unknown> }> };
+    const page = await newPage();
+    for (const design of catalog.designs) {
+      const sent = page.waitForRequest((r) => r.url().endsWith(`/api/v1/designs/${design.id}/previews`));
+      await page.goto(`${base}/design?id=${design.id}`);
+      const body = JSON.parse((await sent).postData() ?? "null") as { inputs: unknown };
+      // Reading the form filled with the example must give the example back: every control reads what it was given.
+      expect(body.inputs, design.id).toEqual(design.example);
+      await settled(page);
+      expect(await page.textContent("#status"), design.id).toBe("Up to date.");
+      expect(await page.$$eval(".field-error:not([hidden])", (els) => els.length), design.id).toBe(0);
+    }
+    await page.close();
+  });
+});
+
+describe("slow answers", () => {
+  it("show progress and can be cancelled", async () => {
+    const page = await newPage();
+    let release: () => void = () => {};
+    const held = new Promise<void>((r) => { release = r; });
+    await page.goto(`${base}/design?id=two-means`);
+    await page.waitForSelector("#preview-head .key-facts");
+    // Hold the next preview back, as a long simulation would.
+    await page.route("**/previews", async (route) => {
+      await held;
+      await route.continue().catch(() => undefined);
+    });
+    await page.fill("#f-sd", "12");
+    await page.waitForSelector("#progress:not([hidden])", { timeout: 5000 });
+    expect(await page.isVisible("#progress progress")).toBe(true);
+    expect(await page.getAttribute("#result", "aria-busy")).toBe("true");
+    await page.click("#cancel");
+    await page.waitForSelector("#progress", { state: "hidden" });
+    expect(await page.textContent("#status")).toContain("Stopped");
+    expect(await page.getAttribute("#result", "aria-busy")).toBeNull();
+    // The earlier result stays, marked as out of date.
+    expect(await page.getAttribute("#result", "class")).toContain("stale");
+    release();
+    await page.unroute("**/previews");
+    await page.close();
+  });
+});
+
 describe("validation errors", () => {
   it("shows the API's error beside the field it names", async () => {
     const page = await newPage();
