@@ -470,7 +470,7 @@ function documentTimeToEvent(input: TimeToEventInput, r: TimeToEventResult): Sec
 
 export const timeToEvent: Design<TimeToEventInput, TimeToEventResult> = {
   id: "time-to-event",
-  version: 1,
+  version: 2,
   stage: "comparative",
   title: "Time to event (log-rank test)",
   summary: "Events and enrolment for comparing time to event between two arms by the log-rank test, from a hazard ratio or medians, with uniform accrual, follow-up and loss to follow-up, and when the analysis is expected.",

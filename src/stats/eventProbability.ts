@@ -11,6 +11,9 @@
  *   (1/R) ∫_{max(0, s−R)}^{s} F(u) du = (H(s) − H(max(0, s − R))) / R,
  *   H(t) = ∫_0^t F(u) du = λ/φ · (t − (1 − e^{−φt})/φ).
  * At the end of the study, s = R + followUp, this is the probability of an event.
+ * After accrual (s ≥ R) it is computed in the equivalent closed form
+ *   λ/φ · (1 − e^{−φ(s−R)} · (1 − e^{−φR}) / (φR)),
+ * which keeps its precision when the accrual period is short.
  */
 
 /** t − (1 − e^{−φt})/φ without cancellation when φt is small. */
@@ -43,9 +46,12 @@ export interface AccrualModel {
 export function expectedEventFraction(years: number, model: AccrualModel): number {
   if (years <= 0) return 0;
   const { eventHazard, lossHazard, accrualYears } = model;
-  const upper = integratedIncidence(years, eventHazard, lossHazard);
-  const lower = integratedIncidence(years - accrualYears, eventHazard, lossHazard);
-  return (upper - lower) / accrualYears;
+  if (years <= accrualYears) return integratedIncidence(years, eventHazard, lossHazard) / accrualYears;
+  const phi = eventHazard + lossHazard;
+  const x = phi * accrualYears;
+  // (1 − e^{−x})/x, by its series where the subtraction would cancel.
+  const averageSurvivalFactor = x < 1e-8 ? 1 - x / 2 : -Math.expm1(-x) / x;
+  return (eventHazard / phi) * (1 - Math.exp(-phi * (years - accrualYears)) * averageSurvivalFactor);
 }
 
 /** Probability that a participant has an observed event by the end of the study (accrual + follow-up). */

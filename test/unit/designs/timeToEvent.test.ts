@@ -36,6 +36,11 @@ describe("time-to-event: published values", () => {
   it("all participants with an event when follow-up is long: probability tends to 1 (common practice, no source)", () => {
     expectClose(eventProbability({ eventHazard: 2, lossHazard: 0, accrualYears: 1 }, 40), 1, 1e-12, {});
   });
+  it("a very short accrual tends to everyone entering at once: probability λ/φ (1 − e^{−φF}) (common practice, no source)", () => {
+    const lambda = 0.4;
+    const eta = 0.1;
+    expectClose(eventProbability({ eventHazard: lambda, lossHazard: eta, accrualYears: 1e-9 }, 2), (lambda / (lambda + eta)) * (1 - Math.exp(-(lambda + eta) * 2)), 1e-9, {});
+  });
   it("with loss to follow-up, the event probability tends to λ/(λ + η), the share of competing exits that are events (common practice, no source)", () => {
     expectClose(eventProbability({ eventHazard: 0.3, lossHazard: 0.1, accrualYears: 2 }, 200), 0.75, 1e-12, {});
   });
