@@ -11,8 +11,12 @@
  * arithmetic count as equal in floating point (the convention of R's
  * stats::fisher.test, which most trial statisticians will run).
  *
- * Power = Σ_t Σ_{x2 rejected given t} b(t − x2; n1, p1) b(x2; n2, p2): every one
- * of the (n1 + 1)(n2 + 1) tables is visited once, so the cost is O(n1 n2).
+ * Power = Σ_t Σ_{x2 rejected given t} b(t − x2; n1, p1) b(x2; n2, p2), a full
+ * enumeration of both binomials. Given t, only the part of the conditional
+ * distribution that can decide a test at level alpha is computed (a few of its
+ * standard deviations; the rest is rejected), and two-sided power is one minus
+ * the probability of the short acceptance region, so the cost grows with
+ * (n1 + n2) times that width rather than with n1 n2.
  */
 import { binomialPmfArray, logChoose } from "./binomial.js";
 
@@ -21,41 +25,61 @@ export type FisherAlternative = "greater" | "two-sided";
 const RELATIVE_TIE = 1 + 1e-7;
 
 /**
- * Conditional null distribution of X2 given t, unnormalized (mode = 1), written
- * into `out[0..m)` for x2 = lo..lo+m-1, with its total. Built by the ratio
- * recurrence from the mode, so no term underflows before it is negligible;
- * leaving it unnormalized saves a pass (every comparison below is scaled).
+ * The conditional distribution is log-concave, so beyond a point where the
+ * ratio of successive probabilities is ρ < 1 the rest of the tail is at most
+ * f·ρ/(1 − ρ). Once that is below this fraction of alpha × the running total,
+ * the rest is rejected at any level in use and its p-values cannot move a
+ * decision by more than rounding would; it is not computed.
  */
-function conditionalNull(n1: number, n2: number, t: number, out: Float64Array): { lo: number; m: number; total: number } {
+const NEGLIGIBLE_TAIL = 1e-13;
+
+/**
+ * Conditional null distribution of X2 given t, unnormalized (mode = 1), written
+ * into `out` at offsets x2 - lo, computed outward from the mode by the ratio
+ * recurrence and only as far as its tails matter at level alpha: offsets
+ * first..last. Leaving it unnormalized and truncated keeps the cost near the
+ * width of the distribution (a few standard deviations), not the support.
+ */
+function conditionalNull(n1: number, n2: number, t: number, alpha: number, out: Float64Array): { lo: number; m: number; first: number; last: number; total: number } {
   const lo = Math.max(0, t - n1);
   const hi = Math.min(t, n2);
-  const m = hi - lo + 1;
   const mode = Math.min(hi, Math.max(lo, Math.floor(((t + 1) * (n2 + 1)) / (n1 + n2 + 2))));
+  const negligible = NEGLIGIBLE_TAIL * alpha;
   out[mode - lo] = 1;
-  let sum = 1;
-  for (let x = mode; x < hi; x++) {
-    const v = out[x - lo]! * (((n2 - x) * (t - x)) / ((x + 1) * (n1 - t + x + 1)));
+  let total = 1;
+  let x = mode;
+  while (x < hi) {
+    const ratio = ((n2 - x) * (t - x)) / ((x + 1) * (n1 - t + x + 1));
+    const v = out[x - lo]! * ratio;
     out[x + 1 - lo] = v;
-    sum += v;
+    total += v;
+    x++;
+    if (ratio < 1 && (v * ratio) / (1 - ratio) < negligible * total) break;
   }
-  for (let x = mode; x > lo; x--) {
-    const v = out[x - lo]! * ((x * (n1 - t + x)) / ((n2 - x + 1) * (t - x + 1)));
+  const last = x - lo;
+  x = mode;
+  while (x > lo) {
+    const ratio = (x * (n1 - t + x)) / ((n2 - x + 1) * (t - x + 1));
+    const v = out[x - lo]! * ratio;
     out[x - 1 - lo] = v;
-    sum += v;
+    total += v;
+    x--;
+    if (ratio < 1 && (v * ratio) / (1 - ratio) < negligible * total) break;
   }
-  return { lo, m, total: sum };
+  return { lo, m: hi - lo + 1, first: x - lo, last, total };
 }
 
 /**
  * Rejection region given t, as offsets into the support: reject offsets ≤ lower
- * or ≥ upper (lower = -1 and upper = m mean no rejection in that tail).
- * `level` is alpha times the total of the unnormalized f.
+ * or ≥ upper. Only f[first..last] is computed; the negligible offsets outside
+ * it are rejected in the tails the test rejects (both for two-sided, the upper
+ * for "greater"). `level` is alpha times the total of the unnormalized f.
  */
-function regionGivenTotal(f: Float64Array, m: number, level: number, alternative: FisherAlternative): { lower: number; upper: number } {
+function regionGivenTotal(f: Float64Array, first: number, last: number, level: number, alternative: FisherAlternative): { lower: number; upper: number } {
   if (alternative === "greater") {
     let tail = 0;
-    let upper = m;
-    for (let i = m - 1; i >= 0; i--) {
+    let upper = last + 1;
+    for (let i = last; i >= first; i--) {
       tail += f[i]!;
       if (tail > level) break;
       upper = i;
@@ -65,9 +89,9 @@ function regionGivenTotal(f: Float64Array, m: number, level: number, alternative
   // The distribution is unimodal, so merging from both ends visits tables in
   // increasing probability; the p-value is non-decreasing along that order and
   // the rejection region is its longest prefix with p-value ≤ alpha.
-  let left = 0, right = m - 1;
-  let sumLeft = 0, sumRight = m - 1, pValue = 0;
-  let lower = -1, upper = m;
+  let left = first, right = last;
+  let sumLeft = first, sumRight = last, pValue = 0;
+  let lower = first - 1, upper = last + 1;
   while (left <= right) {
     const takeLeft = f[left]! <= f[right]!;
     const threshold = (takeLeft ? f[left]! : f[right]!) * RELATIVE_TIE;
@@ -96,14 +120,20 @@ export function fisherExactPower(n1: number, n2: number, p1: number, p2: number,
   const b1 = binomialPmfArray(n1, p1);
   const b2 = binomialPmfArray(n2, p2);
   const f = new Float64Array(Math.min(n1, n2) + 1);
-  let power = 0;
+  // Two-sided: the acceptance region lies inside the computed window, so its
+  // probability is the short sum, and power is its complement (the tables'
+  // probabilities sum to 1). One-sided: the rejected upper tail, summed directly.
+  let sum = 0;
   for (let t = 0; t <= n1 + n2; t++) {
-    const { lo, m, total } = conditionalNull(n1, n2, t, f);
-    const { lower, upper } = regionGivenTotal(f, m, alpha * total, alternative);
-    for (let i = 0; i <= lower; i++) power += b1[t - lo - i]! * b2[lo + i]!;
-    for (let i = upper; i < m; i++) power += b1[t - lo - i]! * b2[lo + i]!;
+    const { lo, m, first, last, total } = conditionalNull(n1, n2, t, alpha, f);
+    const { lower, upper } = regionGivenTotal(f, first, last, alpha * total, alternative);
+    if (alternative === "two-sided") {
+      for (let i = lower + 1; i < upper; i++) sum += b1[t - lo - i]! * b2[lo + i]!;
+    } else {
+      for (let i = upper; i < m; i++) sum += b1[t - lo - i]! * b2[lo + i]!;
+    }
   }
-  return Math.min(1, power);
+  return Math.max(0, Math.min(1, alternative === "two-sided" ? 1 - sum : sum));
 }
 
 /**
