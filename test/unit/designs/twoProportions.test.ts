@@ -102,6 +102,25 @@ describe("Fisher's exact test", () => {
       "two-proportions/fisher-exact-power.json");
     for (const c of f.cases) expectClose(fisherExactPower(c.n1, c.n2, c.p1, c.p2, c.alpha, c.alternative), c.power, f.tolerance, c);
   });
+  it("exact power equals the sum over every table the direct p-value rejects, at small and large alpha", () => {
+    // The direct p-value is checked against R above; this covers levels and shapes the R fixture does not.
+    const binomialPmf = (x: number, n: number, p: number): number => {
+      let c = 1;
+      for (let i = 0; i < x; i++) c = (c * (n - i)) / (i + 1);
+      return c * p ** x * (1 - p) ** (n - x);
+    };
+    for (const [n1, n2, p1, p2, alpha] of [[20, 35, 0.15, 0.5, 0.001], [33, 17, 0.6, 0.95, 0.2], [40, 40, 0.4, 0.55, 0.01], [3, 30, 0.2, 0.9, 0.05]] as const) {
+      for (const alternative of ["two-sided", "greater"] as const) {
+        let brute = 0;
+        for (let x1 = 0; x1 <= n1; x1++) {
+          for (let x2 = 0; x2 <= n2; x2++) {
+            if (fisherExactPValue(x1, n1, x2, n2, alternative) <= alpha) brute += binomialPmf(x1, n1, p1) * binomialPmf(x2, n2, p2);
+          }
+        }
+        expectClose(fisherExactPower(n1, n2, p1, p2, alpha, alternative), brute, 1e-11, { n1, n2, p1, p2, alpha, alternative });
+      }
+    }
+  });
   it("exact power agrees with a seeded Monte Carlo of the same test (common practice: 4 standard errors)", () => {
     const random = createRandom(20261201);
     const binomial = (n: number, p: number): number => { let x = 0; for (let i = 0; i < n; i++) if (random.bernoulli(p)) x++; return x; };
