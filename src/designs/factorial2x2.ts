@@ -336,15 +336,15 @@ function describeMultiplicity(input: Factorial2x2Input): string {
 
 function describeMethod(input: Factorial2x2Input): string {
   if (input.outcome === "means") {
-    return input.method === "normal" ? "the normal approximation to the two-sample comparison of the margins" : "the two-sample t test on the margins (exact power from the noncentral t distribution)";
+    return `a model with both treatments, each main effect compared at the margins (${input.method === "normal" ? "power by the normal approximation" : "power by the two-sample t test, exact from the noncentral t distribution"})`;
   }
-  return input.method === "normal-corrected" ? "the two-proportion normal approximation on the margins with continuity correction" : "the two-proportion normal approximation on the margins (variance pooled under the null)";
+  return input.method === "normal-corrected" ? "the two-proportion test at the margins (normal approximation with continuity correction)" : "the two-proportion test at the margins (normal approximation, variance pooled under the null)";
 }
 
 function effectText(input: Factorial2x2Input, m: MainEffectResult): string {
-  if (input.outcome === "means") return `a difference in means of ${m.effect}`;
+  if (input.outcome === "means") return `${m.effect} (difference in means)`;
   const [without, withFactor] = m.marginRates!;
-  return `a difference in response rates of ${fmt(m.effect, 3)} (${fmt(without, 3)} without ${m.factor}, ${fmt(withFactor, 3)} with ${m.factor}, at the margins)`;
+  return `${fmt(m.effect, 3)} (response rate ${fmt(without, 3)} without ${m.factor} and ${fmt(withFactor, 3)} with ${m.factor}, at the margins)`;
 }
 
 function documentFactorial(input: Factorial2x2Input, r: Factorial2x2Result): Section[] {

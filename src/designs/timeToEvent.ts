@@ -4,7 +4,8 @@
  * Methods:
  * - Required events, Schoenfeld (1983): D = (z_{1-α/s} + z_{1-β})² / (p1 p2 (ln θ)²),
  *   p1 = 1/(1+k), p2 = k/(1+k) the allocation fractions.
- * - Required events, Freedman (1982): D = (z_{1-α/s} + z_{1-β})² (1 + kθ)² / (k (1 − θ)²).
+ * - Required events, Freedman (1982): D = (z_{1-α/s} + z_{1-β})² (1 + kθ)² / (k (1 − θ)²),
+ *   Freedman's (1 + θ)²/(1 − θ)² with the events split k : 1 in proportion to n × hazard.
  * - Enrolment, Lachin & Foulkes (1986): exponential survival in each arm
  *   (λ = ln 2 / median), uniform accrual over R years, a further F years of
  *   follow-up after accrual ends, and exponential loss to follow-up with hazard η
@@ -303,7 +304,8 @@ export function computeTimeToEvent(input: TimeToEventInput): TimeToEventResult {
 
 const fmt = (x: number, d = 3): string => x.toFixed(d);
 const pct = (x: number, d = 1): string => `${(x * 100).toFixed(d)}%`;
-const methodCitation = (m: TimeToEventInput["method"]): string => (m === "schoenfeld" ? "Schoenfeld (1983)" : "Freedman (1982)");
+const methodCitation = (m: TimeToEventInput["method"]): string => (m === "schoenfeld" ? "Schoenfeld 1983" : "Freedman 1982");
+const years = (x: number): string => `${x} year${x === 1 ? "" : "s"}`;
 
 /** A step between table rows that gives at most about 20 rows. */
 function tableStep(studyYears: number): number {
@@ -339,7 +341,7 @@ function describeTest(input: TimeToEventInput): string {
 
 function documentTimeToEvent(input: TimeToEventInput, r: TimeToEventResult): Section[] {
   const loss = input.annualLossToFollowUp > 0 ? `, ${pct(input.annualLossToFollowUp)} of participants lost to follow-up per year` : ", no loss to follow-up";
-  const assumptions = `exponential times to event with a median of ${input.controlMedianYears} years in the control arm and ${fmt(r.experimentalMedianYears, 2)} years in the experimental arm (hazard ratio ${fmt(r.hazardRatio, 3)}), uniform accrual over ${input.accrualYears} years with ${input.followUpYears} years of further follow-up${loss}`;
+  const assumptions = `exponential times to event with a median of ${input.controlMedianYears} years in the control arm and ${fmt(r.experimentalMedianYears, 2)} years in the experimental arm (hazard ratio ${fmt(r.hazardRatio, 3)}), uniform accrual over ${years(input.accrualYears)} with ${years(input.followUpYears)} of further follow-up${loss}`;
   const allocation = input.allocationRatio === 1 ? "1:1 allocation" : `allocation 1:${input.allocationRatio} (control:experimental)`;
   const enrolment = `Under ${assumptions}, the probability of an observed event is ${fmt(r.eventProbabilityControl, 3)} in the control arm and ${fmt(r.eventProbabilityExperimental, 3)} in the experimental arm (Lachin & Foulkes 1986), so ${r.total} participants will be enrolled (${r.n1} control, ${r.n2} experimental) and the ${r.events} events are expected about ${fmt(r.analysisYears, 1)} years after the first participant enters.`;
   const protocol = input.solveFor === "sample-size"
@@ -347,7 +349,7 @@ function documentTimeToEvent(input: TimeToEventInput, r: TimeToEventResult): Sec
     : input.solveFor === "power"
       ? `The primary analysis is ${describeTest(input)} with ${allocation}. With ${r.events} events, the power to detect a hazard ratio of ${fmt(r.hazardRatio, 3)} is ${pct(r.power)} (${methodCitation(input.method)}). ${enrolment}`
       : `The primary analysis is ${describeTest(input)} with ${allocation}. With ${r.events} events, the smallest hazard ratio detectable with ${pct(input.power, 0)} power is ${fmt(r.hazardRatio, 3)} (${methodCitation(input.method)}). ${enrolment}`;
-  const other = input.method === "schoenfeld" ? { label: "Events by Freedman (1982)", value: r.freedmanEvents } : { label: "Events by Schoenfeld (1983)", value: r.schoenfeldEvents };
+  const other = input.method === "schoenfeld" ? { label: "Events by Freedman 1982", value: r.freedmanEvents } : { label: "Events by Schoenfeld 1983", value: r.schoenfeldEvents };
   return [
     {
       id: "design",
@@ -493,7 +495,7 @@ export const timeToEvent: Design<TimeToEventInput, TimeToEventResult> = {
     const effect = input.hazardRatio !== undefined
       ? `a hazard ratio of ${input.hazardRatio}`
       : `an increase in median time to event from ${input.controlMedianYears} to ${input.experimentalMedianYears} years`;
-    const setting = `with ${input.accrualYears} years of accrual and ${input.followUpYears} years of further follow-up, ${input.sides === 2 ? "two-sided" : "one-sided"} α = ${input.alpha}`;
+    const setting = `with ${years(input.accrualYears)} of accrual and ${years(input.followUpYears)} of further follow-up, ${input.sides === 2 ? "two-sided" : "one-sided"} α = ${input.alpha}`;
     switch (input.solveFor) {
       case "sample-size":
         return `How many events, and how many participants per arm, are needed to detect ${effect} with ${input.power * 100}% power, ${setting}, and when will the events have happened?`;
