@@ -16,6 +16,7 @@ const pageErrors: string[] = [];
 async function newPage(): Promise<Page> {
   const page = await context.newPage();
   page.on("pageerror", (e) => pageErrors.push(e.message));
+  page.on("console", (m) => { if (/Content Security Policy|Refused to/i.test(m.text())) pageErrors.push(m.text()); });
   return page;
 }
 
@@ -197,6 +198,41 @@ describe("validation errors", () => {
   });
 });
 
+describe("contrast", () => {
+  it("keeps text at WCAG AA contrast (4.5:1) against its background", async () => {
+    const page = await newPage();
+    await page.goto(`${base}/design?id=two-means`);
+    await page.waitForSelector("#preview-head .key-facts");
+    await page.fill("#f-sd", "-1");
+    await page.waitForSelector("#err-sd:not([hidden])");
+    // WCAG 2.1 relative luminance and contrast ratio (success criterion 1.4.3), computed on the rendered colours.
+    const worst = await page.evaluate(() => {
+      const rgb = (c: string): number[] => (c.match(/[\d.]+/g) ?? []).map(Number);
+      const lum = ([r, g, b]: number[]): number => [r!, g!, b!].map((v) => v / 255).map((v) => (v <= 0.03928 ? v / 12.92 : ((v + 0.055) / 1.055) ** 2.4))
+        .reduce((sum, v, i) => sum + v * [0.2126, 0.7152, 0.0722][i]!, 0);
+      const background = (el: Element | null): number[] => {
+        for (let e = el; e; e = e.parentElement) {
+          const c = rgb(getComputedStyle(e).backgroundColor);
+          if (c.length === 3 || (c.length === 4 && c[3]! > 0)) return c.slice(0, 3);
+        }
+        return [255, 255, 255];
+      };
+      const results: Array<{ text: string; ratio: number }> = [];
+      for (const el of document.querySelectorAll("body *")) {
+        const own = [...el.childNodes].some((n) => n.nodeType === Node.TEXT_NODE && n.textContent!.trim() !== "");
+        if (!own || (el as HTMLElement).offsetParent === null || el.closest("svg, .skip, button:disabled")) continue;
+        const a = lum(rgb(getComputedStyle(el).color));
+        const b = lum(background(el));
+        results.push({ text: `${el.tagName.toLowerCase()}.${el.className}: ${el.textContent!.trim().slice(0, 30)}`, ratio: (Math.max(a, b) + 0.05) / (Math.min(a, b) + 0.05) });
+      }
+      return results.sort((x, y) => x.ratio - y.ratio).slice(0, 3);
+    });
+    expect(worst.length).toBeGreaterThan(0);
+    expect(worst[0]!.ratio, JSON.stringify(worst)).toBeGreaterThanOrEqual(4.5);
+    await page.close();
+  });
+});
+
 describe("keyboard alone", () => {
   it("reaches every step of the form, computes, freezes and copies the link without a pointer", async () => {
     const page = await newPage();
@@ -234,7 +270,7 @@ describe("keyboard alone", () => {
     await page.close();
   });
 
-  it("raised no script errors on any page", () => {
+  it("raised no script errors and no CSP violations on any page", () => {
     expect(pageErrors).toEqual([]);
   });
 });
