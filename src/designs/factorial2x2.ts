@@ -48,7 +48,7 @@ import { noncentralTCdf, noncentralTSurvival } from "../stats/noncentralT.js";
 import { type TwoMeansInput, twoMeansPower } from "./twoMeans.js";
 import { twoProportionsPower } from "./shared/twoProportionsPower.js";
 import { curveSizes, detectableEffect, inflateForDropout, smallestSampleSize } from "./shared/sizing.js";
-import { comparativeCommonFields, probabilityField } from "./shared/fields.js";
+import { checkComparativeCommon, comparativeCommonFields, probabilityField } from "./shared/fields.js";
 
 const MAX_PER_CELL = 50000;
 const { alpha, power, sides, dropout } = comparativeCommonFields;
@@ -116,7 +116,7 @@ const schema = z
     }
     if (v.interaction === 0) issue("interaction", "An interaction of 0 is the absence of one; give the size of interaction you want to be able to detect.");
     if (v.solveFor === "power" && v.nPerCell === undefined) issue("nPerCell", "Give the number of evaluable participants per cell when solving for power.");
-    if (v.power <= v.alpha) issue("power", "Power must exceed alpha: a test that rejects no more often than chance is not a test.");
+    checkComparativeCommon({ ...v, hypothesis: "superiority" }, ctx);
   })
   .transform((v) => {
     const mainA = v.outcome === "means" ? v.effectA! : v.rateA! - v.controlRate!;

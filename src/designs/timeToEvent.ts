@@ -36,7 +36,7 @@ import { normalCdf, normalQuantile } from "../stats/normal.js";
 import { findRoot } from "../stats/rootFinding.js";
 import { type AccrualModel, enrolledFraction, eventProbability, expectedEventFraction } from "../stats/eventProbability.js";
 import { type ArmSizes, armsFromControl, curveSizes, detectableEffect } from "./shared/sizing.js";
-import { comparativeCommonFields } from "./shared/fields.js";
+import { checkComparativeCommon, comparativeCommonFields } from "./shared/fields.js";
 
 const MAX_EVENTS = 200000;
 const MAX_ENROLLED = 1000000;
@@ -95,7 +95,7 @@ const schema = z
       issue(v.hazardRatio !== undefined ? "hazardRatio" : "experimentalMedianYears", "When solving for the detectable hazard ratio, leave the hazard ratio and the experimental-arm median out.");
     }
     if (v.solveFor !== "sample-size" && v.events === undefined) issue("events", "Give the number of events expected at the analysis when solving for power or for the hazard ratio.");
-    if (v.power <= v.alpha) issue("power", "Power must exceed alpha: a test that rejects no more often than chance is not a test.");
+    checkComparativeCommon({ ...v, hypothesis: "superiority" }, ctx);
   })
   .transform((v) => ({ ...v, sides: v.sides ?? 2 }));
 

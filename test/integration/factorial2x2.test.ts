@@ -2,21 +2,9 @@
 // field with a sentence, and a 422 naming the bound.
 import { SELF } from "cloudflare:test";
 import { describe, expect, it } from "vitest";
+import { type Problem, expectFieldError, postCalculation } from "../support/http.js";
 
-interface Problem {
-  status: number;
-  detail: string;
-  bound?: number;
-  field?: string;
-  errors?: Array<{ path: string; message: string }>;
-}
-
-const post = (inputs: unknown): Promise<Response> =>
-  SELF.fetch("https://example.com/api/v1/designs/factorial-2x2/calculations", {
-    method: "POST",
-    headers: { "content-type": "application/json" },
-    body: JSON.stringify({ inputs }),
-  });
+const post = (inputs: unknown): Promise<Response> => postCalculation("factorial-2x2", inputs);
 
 describe("factorial-2x2 over HTTP", () => {
   it("freezes a calculation: 32 per cell for 0.5 SD main effects by the normal method (2(1.96 + 0.8416)²/0.25 = 62.8 per margin), 126 per cell for the interaction", async () => {
@@ -50,12 +38,7 @@ describe("factorial-2x2 over HTTP", () => {
   ];
   for (const [what, inputs, path, message] of cases) {
     it(`answers 400 naming ${path} for ${what}`, async () => {
-      const res = await post(inputs);
-      expect(res.status).toBe(400);
-      expect(res.headers.get("content-type")).toMatch(/application\/problem\+json/);
-      const problem = await res.json<Problem>();
-      const error = problem.errors?.find((e) => e.path === path);
-      expect(error?.message).toMatch(message);
+      await expectFieldError(await post(inputs), path, message);
     });
   }
 

@@ -2,21 +2,9 @@
 // field with a sentence, and 422s naming the bound.
 import { SELF } from "cloudflare:test";
 import { describe, expect, it } from "vitest";
+import { type Problem, expectFieldError, postCalculation } from "../support/http.js";
 
-interface Problem {
-  status: number;
-  detail: string;
-  bound?: number;
-  field?: string;
-  errors?: Array<{ path: string; message: string }>;
-}
-
-const post = (inputs: unknown): Promise<Response> =>
-  SELF.fetch("https://example.com/api/v1/designs/time-to-event/calculations", {
-    method: "POST",
-    headers: { "content-type": "application/json" },
-    body: JSON.stringify({ inputs }),
-  });
+const post = (inputs: unknown): Promise<Response> => postCalculation("time-to-event", inputs);
 
 const setting = { controlMedianYears: 2, accrualYears: 3, followUpYears: 2 };
 
@@ -46,12 +34,7 @@ describe("time-to-event over HTTP", () => {
   ];
   for (const [what, inputs, path, message] of cases) {
     it(`answers 400 naming ${path} for ${what}`, async () => {
-      const res = await post(inputs);
-      expect(res.status).toBe(400);
-      expect(res.headers.get("content-type")).toMatch(/application\/problem\+json/);
-      const problem = await res.json<Problem>();
-      const error = problem.errors?.find((e) => e.path === path);
-      expect(error?.message).toMatch(message);
+      await expectFieldError(await post(inputs), path, message);
     });
   }
 
