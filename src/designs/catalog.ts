@@ -8,6 +8,11 @@ import { threePlusThree } from "./threePlusThree.js";
 import { bayesianMonitoring } from "./bayesianMonitoring.js";
 import { timeToEvent } from "./timeToEvent.js";
 import { factorial2x2 } from "./factorial2x2.js";
+import { singleStageBinomial } from "./singleStageBinomial.js";
+import { simonTwoStage } from "./simonTwoStage.js";
+import { gehanTwoStage } from "./gehanTwoStage.js";
+import { twoStageInference } from "./twoStageInference.js";
+import { groupSequential } from "./groupSequential.js";
 
 export const catalog: readonly AnyDesign[] = [
   twoMeans,
@@ -18,6 +23,11 @@ export const catalog: readonly AnyDesign[] = [
   bayesianMonitoring,
   timeToEvent,
   factorial2x2,
+  singleStageBinomial,
+  simonTwoStage,
+  gehanTwoStage,
+  twoStageInference,
+  groupSequential,
 ];
 
 const byId = new Map(catalog.map((d) => [d.id, d]));

@@ -1,0 +1,163 @@
+/**
+ * The search behind Simon's two-stage designs (Simon 1989, Controlled Clinical
+ * Trials 10:1-10) and the admissible designs between them (Jung, Lee, Kim &
+ * George 2004, Statistics in Medicine 23:561-569).
+ *
+ * For every stage-1 rule (n1, r1) the search walks the total size n upwards.
+ * Two facts keep it from scanning r: the probability of declaring promise
+ * falls as r rises, so the best r at each n is the smallest with alpha within
+ * the limit; and adding one patient raises that smallest r by 0 or 1 (the
+ * total grows by at most one), so one alpha evaluation per n suffices. Stage-1
+ * probabilities are computed once per n1, second-stage tails once per n2.
+ * A design matters only if its expected size under p0 is below that of every
+ * design found at the same or a smaller n (otherwise that design is at least
+ * as good on both n and E(N | p0), so it is neither optimal, minimax nor
+ * admissible). E(N | p0) grows with n for a fixed stage 1 while that bound
+ * only falls, so once a stage 1 fails it, larger n are skipped; power is only
+ * computed for designs that pass it. r1 stops growing once P(X1 > r1 | p1) is
+ * already below the target power.
+ *
+ * Before searching, the power of the most powerful randomized level-alpha
+ * test on maxN patients (shared/powerCeiling.ts) bounds the power of every
+ * two-stage rule up to maxN; below the target no design exists and the search
+ * is skipped.
+ *
+ * Conventions: r1 ranges over 0..n1-1 (stage 1 can always stop the trial) and
+ * n2 = n - n1 ≥ 1. Constraints are met within an absolute 1e-12, so that
+ * rounding in the last digit does not flip a design on its boundary. Ties in
+ * expected size at the same n keep the smaller n1, then the smaller r1.
+ */
+import { binomialPmfArray } from "../../stats/binomial.js";
+import { binomialUpperTails, type TwoStageRule } from "./twoStage.js";
+import { mostPowerfulTestPower } from "./powerCeiling.js";
+
+export interface SimonTargets {
+  p0: number;
+  p1: number;
+  alpha: number;
+  power: number;
+  maxN: number;
+}
+
+export interface SimonCandidate extends TwoStageRule {
+  expectedSampleSize0: number;
+}
+
+export interface AdmissibleCandidate extends SimonCandidate {
+  /** The design minimizes q·n + (1 - q)·E(N | p0) for every weight q in [lowestWeight, highestWeight]. */
+  lowestWeight: number;
+  highestWeight: number;
+}
+
+export interface SimonSearchResult {
+  optimal: SimonCandidate;
+  minimax: SimonCandidate;
+  /** From the minimax design (highest weights) to the optimal one (weight 0). */
+  admissible: AdmissibleCandidate[];
+}
+
+const SLACK = 1e-12;
+
+/** The optimal, minimax and admissible designs; null when no design up to maxN meets the targets. */
+export function searchSimon(t: SimonTargets): SimonSearchResult | null {
+  const { p0, p1, maxN } = t;
+  const alphaLimit = t.alpha + SLACK;
+  const powerLimit = t.power - SLACK;
+  if (mostPowerfulTestPower(maxN, p0, p1, alphaLimit) < powerLimit) return null;
+  const tails0: Float64Array[] = [];
+  const tails1: Float64Array[] = [];
+  for (let m = 0; m < maxN; m++) {
+    tails0.push(binomialUpperTails(m, p0));
+    tails1.push(binomialUpperTails(m, p1));
+  }
+  const bestEN = new Float64Array(maxN + 1).fill(Infinity);
+  const bestN1 = new Int32Array(maxN + 1);
+  const bestR1 = new Int32Array(maxN + 1);
+  const bestR = new Int32Array(maxN + 1);
+
+  for (let n1 = 1; n1 < maxN; n1++) {
+    const pmf0 = binomialPmfArray(n1, p0);
+    const pmf1 = binomialPmfArray(n1, p1);
+    const stage1Tail0 = tails0[n1]!;
+    const stage1Tail1 = tails1[n1]!;
+    for (let r1 = 0; r1 < n1; r1++) {
+      // Power never exceeds the chance of passing stage 1.
+      if (stage1Tail1[r1 + 1]! < powerLimit) break;
+      const continue0 = stage1Tail0[r1 + 1]!;
+      let bound = Infinity;
+      for (let n = 1; n <= n1; n++) bound = Math.min(bound, bestEN[n]!);
+      let r = r1;
+      for (let n = n1 + 1; n <= maxN; n++) {
+        bound = Math.min(bound, bestEN[n]!);
+        const en0 = n1 + continue0 * (n - n1);
+        if (en0 >= bound) break;
+        const n2 = n - n1;
+        const second0 = tails0[n2]!;
+        // Promise under p0 at r: all with X1 > r, plus X1 in (r1, r] needing r + 1 - X1 more.
+        for (;;) {
+          let a = r + 1 <= n1 ? stage1Tail0[r + 1]! : 0;
+          const from = Math.max(r1 + 1, r + 1 - n2);
+          const to = Math.min(n1, r);
+          for (let x = from; x <= to; x++) a += pmf0[x]! * second0[r + 1 - x]!;
+          if (a <= alphaLimit) break;
+          r++;
+        }
+        const second1 = tails1[n2]!;
+        let pw = r + 1 <= n1 ? stage1Tail1[r + 1]! : 0;
+        const from = Math.max(r1 + 1, r + 1 - n2);
+        const to = Math.min(n1, r);
+        for (let x = from; x <= to; x++) pw += pmf1[x]! * second1[r + 1 - x]!;
+        if (pw < powerLimit) continue;
+        bestEN[n] = en0;
+        bound = en0;
+        bestN1[n] = n1;
+        bestR1[n] = r1;
+        bestR[n] = r;
+      }
+    }
+  }
+
+  // Per n, the best design not beaten by one at a smaller n: E(N | p0) falls along the list.
+  const records: SimonCandidate[] = [];
+  for (let n = 0; n <= maxN; n++) {
+    const en0 = bestEN[n]!;
+    if (Number.isFinite(en0) && (records.length === 0 || en0 < records[records.length - 1]!.expectedSampleSize0)) {
+      records.push({ r1: bestR1[n]!, n1: bestN1[n]!, r: bestR[n]!, n, expectedSampleSize0: en0 });
+    }
+  }
+  if (records.length === 0) return null;
+  const minimax = records[0]!;
+  const optimal = records[records.length - 1]!;
+  return { optimal, minimax, admissible: admissibleDesigns(records, optimal) };
+}
+
+/**
+ * The designs that minimize q·n + (1 - q)·E(N | p0) for some q in [0, 1]: the
+ * vertices of the lower convex hull of (n, smallest E(N | p0) at n), from the
+ * minimax design to the optimal one. Points on a hull edge but not at a vertex
+ * are best at a single weight only, where they tie with both neighbours, and
+ * are left out.
+ */
+function admissibleDesigns(feasible: SimonCandidate[], optimal: SimonCandidate): AdmissibleCandidate[] {
+  const hull: SimonCandidate[] = [];
+  for (const d of feasible) {
+    if (d.n > optimal.n) break;
+    while (hull.length >= 2) {
+      const a = hull[hull.length - 2]!;
+      const b = hull[hull.length - 1]!;
+      const cross = (b.n - a.n) * (d.expectedSampleSize0 - a.expectedSampleSize0) - (b.expectedSampleSize0 - a.expectedSampleSize0) * (d.n - a.n);
+      if (cross <= 0) hull.pop(); else break;
+    }
+    hull.push(d);
+  }
+  // Neighbours on the hull tie at q = s/(1 + s), s the fall in E(N | p0) per extra patient.
+  const tie = (a: SimonCandidate, b: SimonCandidate): number => {
+    const s = (a.expectedSampleSize0 - b.expectedSampleSize0) / (b.n - a.n);
+    return s / (1 + s);
+  };
+  return hull.map((d, i) => ({
+    ...d,
+    highestWeight: i === 0 ? 1 : tie(hull[i - 1]!, d),
+    lowestWeight: i === hull.length - 1 ? 0 : tie(d, hull[i + 1]!),
+  }));
+}

@@ -1,0 +1,59 @@
+// Single-stage exact binomial design (A'Hern 2001) against a scan in R 4.2
+// (stats::pbinom; test/fixtures/activity/generate.R) and recalled table values.
+import { describe, expect, it } from "vitest";
+import { expectClose, loadFixture } from "../../support/fixtures.js";
+import { InfeasibleDesignError } from "../../../src/designs/design.js";
+import { singleStageBinomial } from "../../../src/designs/singleStageBinomial.js";
+import { createRandom } from "../../../src/stats/random.js";
+
+const parse = (inputs: Record<string, unknown>) => singleStageBinomial.input.parse(inputs);
+
+describe("single-stage exact binomial design", () => {
+  it("matches the smallest n and critical count found by scanning n in R (R 4.2 stats::pbinom fixture)", () => {
+    const f = loadFixture<{ p0: number; p1: number; alpha: number; power: number; n: number; r: number; exactAlpha: number; exactPower: number }>("activity/single-stage.json");
+    for (const c of f.cases) {
+      const result = singleStageBinomial.compute(parse({ p0: c.p0, p1: c.p1, alpha: c.alpha, power: c.power }));
+      expect({ n: result.n, r: result.r }).toEqual({ n: c.n, r: c.r });
+      expectClose(result.alpha, c.exactAlpha, f.tolerance, c);
+      expectClose(result.power, c.exactPower, f.tolerance, c);
+    }
+  });
+
+  // From memory of A'Hern (2001) table 1 (alpha 0.05, power 0.8): n and r, "declare promising if at least r respond".
+  const recalled: Array<[number, number, number, number]> = [[0.05, 0.2, 27, 4], [0.1, 0.3, 25, 6], [0.2, 0.4, 35, 12]];
+  for (const [p0, p1, n, r] of recalled) {
+    it(`p0 ${p0}, p1 ${p1}: n = ${n}, r = ${r} (from memory of A'Hern 2001 table 1)`, () => {
+      const result = singleStageBinomial.compute(parse({ p0, p1, alpha: 0.05, power: 0.8 }));
+      expect([result.n, result.r]).toEqual([n, r]);
+    });
+  }
+
+  it("lists larger sizes with their own rule, marking those that miss the targets (exact power is saw-toothed)", () => {
+    const result = singleStageBinomial.compute(parse({ p0: 0.1, p1: 0.3, alpha: 0.05, power: 0.8 }));
+    expect(result.nearbySizes[0]).toMatchObject({ n: result.n, r: result.r, meetsTargets: true });
+    // Common practice, no source: with p0 0.1 and p1 0.3 some n just above 25 fall short of power 0.8.
+    expect(result.nearbySizes.some((s) => !s.meetsTargets)).toBe(true);
+  });
+
+  it("agrees with a seeded Monte Carlo of the rule at p0 and p1 (within 4 standard errors)", () => {
+    const result = singleStageBinomial.compute(parse({ p0: 0.1, p1: 0.3, alpha: 0.05, power: 0.8 }));
+    const random = createRandom(2001);
+    const trials = 20000;
+    for (const [rate, exact] of [[0.1, result.alpha], [0.3, result.power]] as const) {
+      let hits = 0;
+      for (let t = 0; t < trials; t++) {
+        let x = 0;
+        for (let i = 0; i < result.n; i++) if (random.bernoulli(rate)) x++;
+        if (x >= result.r) hits++;
+      }
+      expect(Math.abs(hits / trials - exact)).toBeLessThan(4 * Math.sqrt((exact * (1 - exact)) / trials));
+    }
+  });
+
+  it("rejects p1 at or below p0 on p1, and is infeasible beyond its size bound", () => {
+    const r = singleStageBinomial.input.safeParse({ p0: 0.4, p1: 0.2 });
+    expect(r.success).toBe(false);
+    expect(r.success ? [] : r.error.issues.map((i) => i.path.join("."))).toContain("p1");
+    expect(() => singleStageBinomial.compute(parse({ p0: 0.5, p1: 0.501, alpha: 0.01, power: 0.99 }))).toThrow(InfeasibleDesignError);
+  });
+});
