@@ -54,13 +54,14 @@ function reportFor(c: Context, record: CalculationRecord): ReportDocument {
   return buildReport(design, record, new URL(c.req.url).origin);
 }
 
-async function pdfBytes(store: RecordStore, doc: ReportDocument, paper: "a4" | "letter"): Promise<{ bytes: ArrayBuffer | Uint8Array; cached: boolean }> {
+/** The PDF from the rendering cache, or drawn now and kept; the report is only built on a miss. */
+async function pdfBytes(store: RecordStore, id: string, report: () => ReportDocument, paper: "a4" | "letter"): Promise<{ bytes: ArrayBuffer | Uint8Array; cached: boolean }> {
   const key = `pdf-v${PDF_RENDERING_VERSION}-${paper}`;
-  const hit = await store.getRendering(doc.record.id, key);
+  const hit = await store.getRendering(id, key);
   if (hit) return { bytes: hit, cached: true };
-  const bytes = await renderPdf(doc, REPORT_FONTS, { paper });
+  const bytes = await renderPdf(report(), REPORT_FONTS, { paper });
   try {
-    await store.putRendering(doc.record.id, key, bytes);
+    await store.putRendering(id, key, bytes);
   } catch (error) {
     // A failed cache write costs a re-render later, not this answer.
     console.error(error);
@@ -80,12 +81,13 @@ export const permalinkRouter = new Hono<{ Bindings: Env }>().get("/:name", async
   }
   const store = new RecordStore(c.env.CALCULATIONS);
   const record = await loadRecord(store, id);
-  const doc = format === "json" ? null : reportFor(c, record);
+  let doc: ReportDocument | undefined;
+  const report = (): ReportDocument => (doc ??= reportFor(c, record));
   const tableId = c.req.query("table");
-  const table = format === "csv" && doc ? (tableId ? findTable(doc, tableId) : mainTables(doc)[0] ?? findTable(doc, "inputs")) : undefined;
+  const table = format === "csv" ? (tableId ? findTable(report(), tableId) : mainTables(report())[0] ?? findTable(report(), "inputs")) : undefined;
   if (format === "csv" && !table) {
     throw new ProblemError(404, "unknown-table", "No such table",
-      `This report has the tables ${doc!.sections.flatMap((s) => s.blocks.flatMap((b) => (b.kind === "table" ? [b.table.id] : []))).join(", ")}; ask for one as /c/${id}.csv?table=<id>.`);
+      `This report has the tables ${report().sections.flatMap((s) => s.blocks.flatMap((b) => (b.kind === "table" ? [b.table.id] : []))).join(", ")}; ask for one as /c/${id}.csv?table=<id>.`);
   }
 
   const etag = `"${record.digest}"`;
@@ -99,9 +101,9 @@ export const permalinkRouter = new Hono<{ Bindings: Env }>().get("/:name", async
       return c.json(record);
     case "html":
       c.header("Content-Security-Policy", HTML_POLICY);
-      return c.html(renderHtml(doc!));
+      return c.html(renderHtml(report()));
     case "pdf": {
-      const { bytes, cached } = await pdfBytes(store, doc!, paperParam === "letter" ? "letter" : "a4");
+      const { bytes, cached } = await pdfBytes(store, id, report, paperParam === "letter" ? "letter" : "a4");
       c.header(RENDERING_HEADER, cached ? "cached" : "rendered");
       c.header("Content-Type", "application/pdf");
       c.header("Content-Disposition", attachment(`${id}.pdf`, true));
@@ -114,10 +116,10 @@ export const permalinkRouter = new Hono<{ Bindings: Env }>().get("/:name", async
     case "bib":
       c.header("Content-Type", "application/x-bibtex; charset=utf-8");
       c.header("Content-Disposition", attachment(`${id}.bib`, false));
-      return c.body(toBibtex(doc!, new Date()));
+      return c.body(toBibtex(report(), new Date()));
     case "ris":
       c.header("Content-Type", "application/x-research-info-systems; charset=utf-8");
       c.header("Content-Disposition", attachment(`${id}.ris`, false));
-      return c.body(toRis(doc!, new Date()));
+      return c.body(toRis(report(), new Date()));
   }
 });

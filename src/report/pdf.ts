@@ -10,7 +10,7 @@
  * creation time, so the same record always gives the same bytes.
  */
 import fontkit from "@pdf-lib/fontkit";
-import type { Font } from "@pdf-lib/fontkit";
+import type { Font, Glyph } from "@pdf-lib/fontkit";
 import { LineCapStyle, PDFDocument, type PDFFont, type PDFPage, type RGB, degrees, rgb } from "pdf-lib";
 import {
   ACCENT, INK, KEY_BACKGROUND, MUTED, PAGE_MARGIN, PAPER, PROTOCOL_BACKGROUND, RULE, type Paper, TYPE,
@@ -29,18 +29,30 @@ export interface PdfOptions {
   paper?: Paper;
 }
 
-/** Ligatures and kerning off: widths measured from advances match what is drawn, and extracted text has no ligature glyphs. */
-const FEATURES = { liga: false, kern: false, calt: false, clig: false, dlig: false };
-
 // Parsing a font takes longer than laying out a whole report, so each font is parsed once per isolate.
 const parsed = new Map<Uint8Array, Font>();
 function parseFont(bytes: Uint8Array): Font {
   let font = parsed.get(bytes);
   if (!font) {
-    font = fontkit.create(bytes);
-    // Lines arrive already in visual order (pdfText.ts): fontkit must not reverse a run again.
-    const layout = font.layout.bind(font) as (s: string, f?: unknown, script?: string, language?: string, direction?: string) => ReturnType<Font["layout"]>;
-    (font as { layout: unknown }).layout = (s: string, f?: unknown) => layout(s, f, undefined, undefined, "ltr");
+    const f = fontkit.create(bytes);
+    // Glyphs straight from the character map, without OpenType shaping: lines arrive in visual order
+    // (pdfText.ts), ligatures and kerning are off anyway, and shaping was most of the drawing time.
+    // Sanitized text has no variation selectors, so one glyph per code point, and the character map is read once per code point.
+    const glyphs = new Map<number, Glyph>();
+    const glyphFor = (cp: number): Glyph => {
+      let g = glyphs.get(cp);
+      if (!g) {
+        g = f.glyphForCodePoint(cp);
+        glyphs.set(cp, g);
+      }
+      return g;
+    };
+    (f as { layout: unknown }).layout = (s: string) => {
+      const run: Glyph[] = [];
+      for (const ch of s) run.push(glyphFor(ch.codePointAt(0)!));
+      return { glyphs: run, positions: [] };
+    };
+    font = f;
     parsed.set(bytes, font);
   }
   return font;
@@ -471,8 +483,8 @@ export async function renderPdf(doc: ReportDocument, fonts: ReportFonts, options
   pdf.registerFontkit(cachedFontkit);
   const regularFont = parseFont(fonts.regular);
   const boldFont = parseFont(fonts.bold);
-  const regular: Face = { pdf: await pdf.embedFont(fonts.regular, { subset: true, features: FEATURES }), metrics: metricsFor(regularFont) };
-  const bold: Face = { pdf: await pdf.embedFont(fonts.bold, { subset: true, features: FEATURES }), metrics: metricsFor(boldFont) };
+  const regular: Face = { pdf: await pdf.embedFont(fonts.regular, { subset: true }), metrics: metricsFor(regularFont) };
+  const bold: Face = { pdf: await pdf.embedFont(fonts.bold, { subset: true }), metrics: metricsFor(boldFont) };
   const created = new Date(doc.record.createdAt);
   pdf.setTitle(regular.metrics.sanitize(doc.record.label ? `${doc.record.label}: ${doc.designTitle}` : doc.designTitle), { showInWindowTitleBar: true });
   pdf.setAuthor("Trialwright");

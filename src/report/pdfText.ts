@@ -7,9 +7,10 @@
  * - Right-to-left runs (Hebrew, Arabic) are reversed into visual order, a
  *   simplification of the Unicode Bidirectional Algorithm (UAX #9) that is
  *   right for a run of one direction inside a left-to-right line; Arabic
- *   letters keep their isolated or font-chosen forms.
- * - Widths come from the font's advance widths (no kerning, no ligatures, the
- *   same settings the PDF is drawn with), so wrapping needs no shaping.
+ *   letters keep their isolated forms.
+ * - Glyphs come straight from the font's character map, unshaped (no kerning,
+ *   no ligatures), so widths are sums of advance widths and extracted text has
+ *   one glyph per character.
  */
 import type { Font } from "@pdf-lib/fontkit";
 

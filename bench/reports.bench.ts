@@ -1,0 +1,83 @@
+/**
+ * Report rendering: the PDF of the largest catalog example (budget 200 ms),
+ * the HTML page, and a cached PDF permalink served through the app from an
+ * in-memory KV, counting that it neither recomputes nor redraws.
+ */
+import { benchAsync, bench } from "./harness.js";
+import { catalog } from "../src/designs/catalog.js";
+import { app } from "../src/index.js";
+import { type ReportDocument, buildReport } from "../src/report/build.js";
+import { REPORT_FONTS } from "../src/report/fonts.js";
+import { renderHtml } from "../src/report/html.js";
+import { renderPdf } from "../src/report/pdf.js";
+import { canonicalJson } from "../src/store/canonical.js";
+import { calculationId, sealRecord } from "../src/store/record.js";
+import { ENGINE } from "../src/version.js";
+
+/** The KV calls the record store makes, over a Map. */
+class MemoryKV {
+  readonly values = new Map<string, string | ArrayBuffer>();
+  puts = 0;
+  async get(key: string, type: "text" | "arrayBuffer"): Promise<string | ArrayBuffer | null> {
+    const v = this.values.get(key);
+    if (v === undefined) return null;
+    if (type === "arrayBuffer") return typeof v === "string" ? new TextEncoder().encode(v).buffer : v;
+    return typeof v === "string" ? v : new TextDecoder().decode(v);
+  }
+  async put(key: string, value: string | ArrayBuffer | Uint8Array): Promise<void> {
+    this.puts++;
+    this.values.set(key, typeof value === "string" ? value : value instanceof Uint8Array ? value.slice().buffer : value);
+  }
+}
+
+const docs: ReportDocument[] = [];
+for (const design of catalog) {
+  const inputs = JSON.parse(canonicalJson(design.input.parse(design.example))) as unknown;
+  const result = JSON.parse(canonicalJson(design.compute(inputs))) as unknown;
+  const record = await sealRecord({
+    id: await calculationId(design.id, design.version, inputs, "TW-417 bench"), design: design.id, designVersion: design.version,
+    engine: ENGINE, inputs, label: "TW-417 bench", result, createdAt: "2026-12-01T00:00:00.000Z",
+  });
+  const doc = buildReport(design, record, "https://trialwright.example");
+  docs.push(doc);
+}
+const byCells = (d: ReportDocument): number => d.sections.flatMap((s) => s.blocks).reduce((n, b) => n + (b.kind === "table" ? b.table.rows.length * b.table.columns.length : b.kind === "chart" ? 200 : 10), 0);
+const largest = [...docs].sort((a, b) => byCells(b) - byCells(a))[0]!;
+
+// Wall time on a shared machine includes waiting for a core; the process's CPU time per render is printed beside it.
+const cpuBefore = process.cpuUsage();
+const pdfRuns = 15 + 10;
+await benchAsync(`PDF of the largest example (${largest.designId}, ${byCells(largest)} cells)`, () => renderPdf(largest, REPORT_FONTS), { runs: 15, warmup: 10, budgetMs: 200 });
+const cpu = process.cpuUsage(cpuBefore);
+console.log(`${"  CPU time per PDF (user + system)".padEnd(60)} mean   ${((cpu.user + cpu.system) / 1000 / pdfRuns).toFixed(2).padStart(9)} ms`);
+bench(`HTML of the largest example (${largest.designId})`, () => renderHtml(largest), { runs: 30 });
+
+// A cached permalink: freeze through the API, draw the PDF once, then count what the cached answers do.
+const kv = new MemoryKV();
+const env = { CALCULATIONS: kv as unknown as KVNamespace };
+const design = catalog.find((d) => d.id === largest.designId)!;
+const created = await app.fetch(new Request(`https://trialwright.example/api/v1/designs/${design.id}/calculations`, {
+  method: "POST", headers: { "content-type": "application/json" }, body: JSON.stringify({ inputs: design.example, label: "TW-417 cached" }),
+}), env);
+const { id } = (await created.json()) as { id: string };
+const first = await app.fetch(new Request(`https://trialwright.example/c/${id}.pdf`), env);
+await first.arrayBuffer();
+let computes = 0;
+let documents = 0;
+const { compute, document } = design;
+design.compute = (input: unknown) => { computes++; return compute(input); };
+design.document = (input: unknown, result: unknown) => { documents++; return document(input, result); };
+const putsBefore = kv.puts;
+let rendering = "";
+await benchAsync(`cached PDF permalink (${design.id}, KV hit)`, async () => {
+  const res = await app.fetch(new Request(`https://trialwright.example/c/${id}.pdf`), env);
+  rendering = res.headers.get("x-trialwright-rendering") ?? "";
+  await res.arrayBuffer();
+}, { runs: 50, warmup: 5 });
+await benchAsync(`cached PDF permalink, 304 on If-None-Match`, async () => {
+  const res = await app.fetch(new Request(`https://trialwright.example/c/${id}.pdf`, { headers: { "if-none-match": first.headers.get("etag")! } }), env);
+  await res.arrayBuffer();
+}, { runs: 50, warmup: 5 });
+design.compute = compute;
+design.document = document;
+console.log(`cached answers: rendering header "${rendering}", compute() calls ${computes}, document() calls ${documents}, KV writes ${kv.puts - putsBefore}`);
