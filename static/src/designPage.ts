@@ -79,7 +79,8 @@ class DesignPage {
       h("div", { class: "with-button" }, this.labelInput, this.freezeButton),
       this.frozen);
     this.result = h("section", { id: "result", class: "result", tabindex: -1, "aria-labelledby": "result-heading" },
-      h("h2", { id: "result-heading" }, "Result"), this.status, this.progress, this.problem, this.head, freezeBox, this.body);
+      h("h2", { id: "result-heading" }, "Result"), this.status, this.progress, this.problem,
+      h("p", { class: "stale-note" }, "Out of date: the numbers below are for the last inputs that gave a result."), this.head, freezeBox, this.body);
     replaceChildren(root,
       h("nav", { class: "crumbs", "aria-label": "Breadcrumb" }, h("a", { href: "/" }, "All designs"), h("span", { "aria-hidden": "true" }, " / "), stageTitle(design.stage)),
       h("h1", {}, design.title),
@@ -114,7 +115,6 @@ class DesignPage {
   private changed(): void {
     clearTimeout(this.timer);
     this.timer = setTimeout(() => this.run(), PAUSE_MS);
-    if (this.hasResult) this.result.classList.add("stale");
     const note = this.frozen.querySelector(".frozen");
     if (note && !note.querySelector(".changed")) {
       note.prepend(h("p", { class: "changed" }, "The inputs have changed since this was frozen; the link below keeps the earlier ones."));
@@ -132,6 +132,7 @@ class DesignPage {
 
   private cancel(): void {
     this.stopRunning();
+    if (this.hasResult) this.result.classList.add("stale");
     this.say(this.hasResult ? "Stopped. The result shown is for earlier inputs." : "Stopped. Change an input or press “Compute now” to start again.");
     this.formElement.querySelector<HTMLButtonElement>("button[type=submit]")?.focus();
   }
@@ -192,6 +193,7 @@ class DesignPage {
     if (field) this.form.showErrors([{ path: `inputs.${field}`, pointer: `/inputs/${field}`, message: problem.detail }]);
     replaceChildren(this.problem, h("p", { class: "problem-title" }, problem.title), h("p", {}, problem.detail));
     this.problem.hidden = false;
+    if (this.hasResult) this.result.classList.add("stale");
     this.say(problem.status === 422 ? "No design meets these constraints." : "No result.");
   }
 

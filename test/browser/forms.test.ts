@@ -127,6 +127,25 @@ describe("simon-two-stage from inputs to a frozen PDF", () => {
   });
 });
 
+describe("infeasible inputs", () => {
+  it("show the 422 explanation and mark the field it names", async (ctx) => {
+    if (!catalogIds.includes("simon-two-stage")) ctx.skip(true, "simon-two-stage is not in the catalog yet");
+    const page = await newPage();
+    await page.goto(`${base}/design?id=simon-two-stage`);
+    await page.waitForSelector("#preview-head .key-facts");
+    // No two-stage design with at most 8 patients reaches power 0.8 at alpha 0.05 for p0 = 0.1, p1 = 0.3: the
+    // smallest maximum size is the minimax design's n = 25 (Simon 1989, Table 1, from memory of the table).
+    // The API answers 422 naming the field "maxN".
+    await page.fill("#f-maxN", "8");
+    await page.waitForSelector("#problem:not([hidden])", { timeout: 20000 });
+    expect(await page.textContent("#problem")).toContain("No design meets these constraints");
+    expect(await page.isVisible("#err-maxN")).toBe(true);
+    expect(await page.getAttribute("#f-maxN", "aria-invalid")).toBe("true");
+    expect(await page.getAttribute("#result", "class")).toContain("stale");
+    await page.close();
+  });
+});
+
 describe("forms generated from every design's schema", () => {
   it("send back each design's example exactly as the catalog gives it, and show its result", async () => {
     const catalog = await (await fetch(`${base}/api/v1/designs`)).json() as { designs: Array<{ id: string; example: Record<string, unknown> }> };
