@@ -28,6 +28,7 @@ import {
   type ArmSizes, armsFromControl, detectableEffect, inflateForDropout, powerCurve, smallestSampleSize,
 } from "./shared/sizing.js";
 import { comparativeCommonFields } from "./shared/fields.js";
+import { type InterimLooksResult, interimLooksField, interimLooksProtocolText, interimLooksSections, planInterimLooks } from "./shared/interimLooks.js";
 
 const MAX_PER_ARM = 100000;
 
@@ -47,6 +48,7 @@ const schema = z
     ...comparativeCommonFields,
     n1: z.number().int().min(2).max(MAX_PER_ARM).optional().describe("Control-arm size, when solving for power or for the difference."),
     n2: z.number().int().min(2).max(MAX_PER_ARM).optional().describe("Experimental-arm size, when solving for power or for the difference."),
+    interimLooks: interimLooksField,
   })
   .superRefine((v, ctx) => {
     const issue = (path: string, message: string): void => ctx.addIssue({ code: "custom", path: [path], message });
@@ -66,6 +68,10 @@ const schema = z
       if (v.hypothesis === "equivalence" && v.margin !== undefined && Math.abs(v.delta) >= v.margin) issue("delta", "The expected difference must lie inside the equivalence margin.");
     }
     if (v.power <= v.alpha) issue("power", "Power must exceed alpha: a test that rejects no more often than chance is not a test.");
+    if (v.interimLooks !== undefined) {
+      if (v.solveFor !== "sample-size") issue("interimLooks", "Interim looks are planned with the sample size: set solveFor to sample-size, or leave interimLooks out.");
+      if (v.hypothesis === "equivalence") issue("interimLooks", "Interim looks are offered for superiority and non-inferiority tests, not for equivalence (two one-sided tests).");
+    }
   })
   .transform((v) => ({ ...v, sides: v.sides ?? (v.hypothesis === "superiority" ? 2 : 1) }));
 
@@ -85,6 +91,8 @@ export interface TwoMeansResult {
   criticalValue: number;
   degreesOfFreedom: number | null;
   powerCurve: Array<[number, number]>;
+  /** Only when interimLooks is given: the group-sequential maximum, looks and boundaries. */
+  interimLooks?: InterimLooksResult;
 }
 
 function standardError(input: TwoMeansInput, arms: ArmSizes): number {
@@ -175,6 +183,9 @@ export function computeTwoMeans(input: TwoMeansInput): TwoMeansResult {
     criticalValue: criticalValue(input, df),
     degreesOfFreedom: input.method === "exact-t" ? df : null,
     powerCurve: powerCurve(arms.n1, ratio, 2, (a) => twoMeansPower(input, a, delta)),
+    ...(input.interimLooks ? {
+      interimLooks: planInterimLooks(input.interimLooks, { alpha: input.alpha, power: input.power, sides: input.sides }, { unit: "participants", n1: arms.n1, n2: arms.n2, dropout: input.dropout }),
+    } : {}),
   };
 }
 
@@ -290,7 +301,8 @@ function documentTwoMeans(input: TwoMeansInput, r: TwoMeansResult): Section[] {
         },
       ],
     },
-    { id: "protocol", title: "Statistical paragraph for the protocol", blocks: [{ kind: "protocol", text: protocol }] },
+    ...(input.interimLooks && r.interimLooks ? interimLooksSections(input.interimLooks, input.sides, r.interimLooks) : []),
+    { id: "protocol", title: "Statistical paragraph for the protocol", blocks: [{ kind: "protocol", text: input.interimLooks && r.interimLooks ? `${protocol} ${interimLooksProtocolText(input.interimLooks, input.sides, r.interimLooks)}` : protocol }] },
   ];
 }
 
