@@ -59,6 +59,9 @@ const schema = z
   .superRefine((v, ctx) => {
     const issue = (path: string, message: string): void => ctx.addIssue({ code: "custom", path: [path], message });
     checkComparativeCommon(v, ctx);
+    if (typeof v.withinSubjectSd === "number" && !(v.withinSubjectSd > 0)) {
+      issue("withinSubjectSd", "The within-subject standard deviation must be a positive number in outcome units: the spread of repeated measurements on the same subject.");
+    }
     if (v.solveFor !== "difference" && v.delta === undefined) issue("delta", "Give the difference in means you expect (A minus B).");
     if (v.solveFor !== "sample-size") {
       if (v.n1 === undefined) issue("n1", "Give the number of subjects in sequence AB when solving for power or for the difference.");

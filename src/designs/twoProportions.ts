@@ -71,6 +71,13 @@ const schema = z
     const issue = (path: string, message: string): void => ctx.addIssue({ code: "custom", path: [path], message });
     checkComparativeCommon(v, ctx);
     const higher = v.betterWhen === "higher";
+    // The bounds already give a terse message; this one says why.
+    for (const [field, arm] of [["p1", "control"], ["p2", "experimental"]] as const) {
+      const p = v[field];
+      if (typeof p === "number" && !(p > 0 && p < 1)) {
+        issue(field, `The ${arm} proportion must lie strictly between 0 and 1 (0.35 means 35%): with a proportion of exactly 0 or 1 every participant has the same outcome and there is nothing to compare.`);
+      }
+    }
     if (v.solveFor !== "difference" && v.p2 === undefined) issue("p2", "Give the proportion you expect in the experimental arm.");
     if (v.solveFor !== "sample-size") {
       if (v.n1 === undefined) issue("n1", "Give the control-arm size when solving for power or for the difference.");
