@@ -5,6 +5,7 @@ import { describe, expect, it } from "vitest";
 import { expectClose, loadFixture } from "../../support/fixtures.js";
 import { InfeasibleDesignError } from "../../../src/designs/design.js";
 import { EXACT_SEARCH_MAX_PER_ARM, twoProportions, twoProportionsDesignPower } from "../../../src/designs/twoProportions.js";
+import { inflateArms, scanSampleSizes } from "../../../src/designs/shared/sizing.js";
 import {
   restrictedRates, twoProportionsControlSize, twoProportionsPowerNormal,
 } from "../../../src/designs/shared/twoProportionsPower.js";
@@ -234,5 +235,34 @@ describe("validation: a field path and a sentence for each bad input", () => {
     expect(issuesOf({ hypothesis: "non-inferiority", p1: 0.8, p2: 0.65, margin: 0.1, sides: 1 }).map((i) => i.path)).toContain("p2");
     expect(issuesOf({ hypothesis: "non-inferiority", p1: 0.05, p2: 0.05, margin: 0.1, sides: 1 }).map((i) => i.path)).toContain("margin");
     expect(issuesOf({ solveFor: "power", p1: 0.3, p2: 0.5, n1: 1200, n2: 1200, method: "fisher-exact" }).map((i) => i.path)).toContain("n1");
+  });
+});
+
+describe("shared sizing: the saw-tooth scan and the inflation hook (common practice, no source)", () => {
+  // A made-up power function rising with n but dipping below 0.8 at n1 = 23 and 31 after first reaching it at 20.
+  const powerOf = (n1: number): number => Math.min(0.99, 0.3 + n1 / 40 - ([23, 31].includes(n1) ? 0.3 : 0));
+  const scan = (maximum: number) => scanSampleSizes({
+    powerAt: (arms) => powerOf(arms.n1), target: 0.8, allocationRatio: 1.5, minimum: 2, maximum, stabilityMultiple: 2,
+  });
+  it("finds the first size, the stable size and the bound", () => {
+    const r = scan(500);
+    expect(r.first.n1).toBe(20);
+    expect(r.stable?.n1).toBe(32);
+    expect(r.stable?.n2).toBe(48);
+    expect(r.bound).toBe(40);
+    expect(r.powers.at(-1)![0]).toBe(40);
+  });
+  it("caps the bound at the maximum, and reports no stable size when the bound itself falls short", () => {
+    expect(scan(31).stable).toBeNull();
+    expect(scan(31).bound).toBe(31);
+  });
+  it("throws an infeasible design naming the maximum when nothing reaches the target", () => {
+    expect(() => scan(19)).toThrow(InfeasibleDesignError);
+    try { scan(19); } catch (error) { expect((error as InfeasibleDesignError).details.bound).toBe(19); }
+  });
+  it("inflates the control arm by a factor and rebuilds the experimental arm from the ratio", () => {
+    expect(inflateArms({ n1: 100, n2: 150 }, 1, 1.5)).toEqual({ n1: 100, n2: 150 });
+    expect(inflateArms({ n1: 100, n2: 150 }, 1.1, 1.5)).toEqual({ n1: 110, n2: 165 });
+    expect(inflateArms({ n1: 97, n2: 97 }, 1.0158, 1)).toEqual({ n1: 99, n2: 99 });
   });
 });
