@@ -29,12 +29,25 @@ export interface ReportDocument {
   cautions: string[];
 }
 
+/** Structured inputs in words: lists joined by commas, objects as "key: value", a named object led by its name. */
+function inputText(value: unknown): string {
+  if (value === null || value === undefined) return "—";
+  if (typeof value === "boolean") return value ? "yes" : "no";
+  if (typeof value !== "object") return String(value);
+  if (Array.isArray(value)) {
+    const flat = value.every((v) => v === null || typeof v !== "object");
+    return value.map(inputText).join(flat ? ", " : "; ");
+  }
+  const entries = Object.entries(value as Record<string, unknown>);
+  const name = entries.find(([k, v]) => (k === "name" || k === "label") && typeof v === "string");
+  const rest = entries.filter((e) => e !== name).map(([k, v]) => `${k}: ${inputText(v)}`).join(", ");
+  return name ? `${String(name[1])} (${rest})` : rest;
+}
+
 function inputCell(value: unknown): Cell {
   if (value === null || value === undefined) return null;
   if (typeof value === "number" || typeof value === "string") return value;
-  if (typeof value === "boolean") return value ? "yes" : "no";
-  if (Array.isArray(value) && value.every((v) => typeof v === "number" || typeof v === "string")) return value.join(", ");
-  return JSON.stringify(value);
+  return inputText(value);
 }
 
 /** Plain-text citation of a calculation. */

@@ -183,9 +183,13 @@ function drawPrimitive(w: Writer, p: Primitive, ox: number, oy: number): void {
 }
 
 function drawChart(w: Writer, chart: Chart): void {
-  const height = Math.min(210, w.contentWidth * 0.5);
+  const full = Math.min(210, w.contentWidth * 0.5);
   const titleLines = wrapText(w.bold.metrics, w.bold.metrics.sanitize(chart.title), TYPE.caption, w.contentWidth);
-  w.ensure(titleLines.length * TYPE.caption * LINE + height + 6);
+  const titleHeight = titleLines.length * TYPE.caption * LINE;
+  // A chart shrinks a little to finish a page rather than leave a third of it blank.
+  const room = w.bottom - w.y - titleHeight - 6;
+  const height = room >= full * 0.72 && room < full ? room : full;
+  w.ensure(titleHeight + height + 6);
   for (const line of titleLines) {
     w.text(line, w.left, w.y + TYPE.caption, TYPE.caption, w.bold);
     w.y += TYPE.caption * LINE;
