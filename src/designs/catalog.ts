@@ -4,6 +4,7 @@ import { twoMeans } from "./twoMeans.js";
 import { twoProportions } from "./twoProportions.js";
 import { crossover2x2 } from "./crossover2x2.js";
 import { boin } from "./boin.js";
+import { crm } from "./crm.js";
 import { threePlusThree } from "./threePlusThree.js";
 import { bayesianMonitoring } from "./bayesianMonitoring.js";
 import { timeToEvent } from "./timeToEvent.js";
@@ -19,6 +20,7 @@ export const catalog: readonly AnyDesign[] = [
   twoProportions,
   crossover2x2,
   boin,
+  crm,
   threePlusThree,
   bayesianMonitoring,
   timeToEvent,

@@ -1,0 +1,170 @@
+// CRM (O'Quigley, Pepe & Fisher 1990) against fixtures computed in R from the
+// method's definitions (test/fixtures/crm/generate.R): Lee & Cheung (2009)
+// skeletons by root finding, posterior summaries by R integrate(), and exact
+// operating characteristics of small trials by enumeration. The fast posterior
+// of the simulations is checked against the adaptive Gauss-Kronrod reference.
+import { describe, expect, it } from "vitest";
+import { expectClose, loadFixture } from "../../support/fixtures.js";
+import { computeCrm, crm } from "../../../src/designs/crm.js";
+import { InfeasibleDesignError } from "../../../src/designs/design.js";
+import { calibrateSkeleton, type CrmModelKind } from "../../../src/designs/shared/crmModel.js";
+import { CrmFastPosterior, crmPosterior } from "../../../src/designs/shared/crmPosterior.js";
+import { createRandom } from "../../../src/stats/random.js";
+import { canonicalJson } from "../../../src/store/canonical.js";
+
+const doses = ["d1", "d2", "d3", "d4", "d5"];
+const pathsOf = (inputs: Record<string, unknown>): string[] => {
+  const r = crm.input.safeParse(inputs);
+  expect(r.success).toBe(false);
+  return r.success ? [] : r.error.issues.map((i) => i.path.join("."));
+};
+
+interface PosteriorCase {
+  model: CrmModelKind; skeleton: number[]; intercept: number; priorVariance: number; target: number; patients: number[]; dlts: number[];
+  meanProbability: number[]; meanParameter: number; plugInProbability: number[]; credibleLower: number[]; credibleUpper: number[];
+  probabilityLowestAboveTarget: number; recommendedPosteriorMean: number; recommendedPlugIn: number;
+}
+const posteriorFixture = loadFixture<PosteriorCase>("crm/posterior.json");
+const modelOf = (c: PosteriorCase) => ({ kind: c.model, skeleton: c.skeleton, intercept: c.intercept, priorVariance: c.priorVariance });
+
+describe("CRM skeleton calibration (Lee & Cheung 2009)", () => {
+  it("matches the switching-point construction solved by uniroot in R (skeleton.json)", () => {
+    const f = loadFixture<{ model: CrmModelKind; target: number; halfWidth: number; priorMtd: number; doses: number; skeleton: number[] }>("crm/skeleton.json");
+    for (const c of f.cases) {
+      const s = calibrateSkeleton(c.model, c.target, c.halfWidth, c.priorMtd - 1, c.doses, 3);
+      s.forEach((v, i) => expectClose(v, c.skeleton[i]!, f.tolerance, { ...c, dose: i + 1 }));
+    }
+  });
+  it("puts the target at the prior MTD and increases with dose", () => {
+    const s = calibrateSkeleton("power", 0.25, 0.05, 2, 5);
+    expect(s[2]).toBe(0.25);
+    for (let i = 1; i < 5; i++) expect(s[i]!).toBeGreaterThan(s[i - 1]!);
+  });
+});
+
+describe("CRM posterior (reference quadrature) against R integrate()", () => {
+  it("posterior means, plug-in estimates, 90% credible limits and P(p1 > target) agree to 1e-9", () => {
+    const tol = posteriorFixture.tolerance;
+    for (const c of posteriorFixture.cases) {
+      const r = crmPosterior(modelOf(c), c.patients, c.dlts, c.target, 0.9);
+      const where = { model: c.model, patients: c.patients, dlts: c.dlts };
+      c.meanProbability.forEach((v, i) => expectClose(r.meanProbability[i]!, v, tol, { ...where, dose: i + 1, what: "mean" }));
+      c.plugInProbability.forEach((v, i) => expectClose(r.plugInProbability[i]!, v, tol, { ...where, dose: i + 1, what: "plug-in" }));
+      c.credibleLower.forEach((v, i) => expectClose(r.credibleLower[i]!, v, tol, { ...where, dose: i + 1, what: "lower" }));
+      c.credibleUpper.forEach((v, i) => expectClose(r.credibleUpper[i]!, v, tol, { ...where, dose: i + 1, what: "upper" }));
+      expectClose(r.meanParameter, c.meanParameter, tol, { ...where, what: "E[a]" });
+      expectClose(r.probabilityLowestAboveTarget, c.probabilityLowestAboveTarget, tol, { ...where, what: "P(p1 > target)" });
+    }
+    expect(posteriorFixture.cases.length).toBe(32);
+  });
+
+  it("recommends the same dose as R, by posterior mean and by plug-in, through the design", () => {
+    for (const c of posteriorFixture.cases) {
+      for (const [doseEstimate, expected] of [["posterior-mean", c.recommendedPosteriorMean], ["plug-in", c.recommendedPlugIn]] as const) {
+        const input = crm.input.parse({
+          use: "next-dose", doses, target: c.target, model: c.model, logisticIntercept: c.intercept, priorVariance: c.priorVariance,
+          skeleton: c.skeleton, doseEstimate, safetyThreshold: 0.999, data: c.patients.map((p, i) => ({ patients: p, dlts: c.dlts[i]! })),
+        });
+        const nd = computeCrm(input).nextDose!;
+        expect(nd.recommendedDose + 1, JSON.stringify({ doseEstimate, c })).toBe(expected);
+      }
+    }
+  });
+
+  it("stops for safety exactly when P(p1 > target) exceeds the threshold", () => {
+    // 3 of 3 at the lowest dose, power model, calibrated skeleton: R gives P(p1 > 0.25) below.
+    const c = posteriorFixture.cases.find((x) => x.model === "power" && x.priorVariance === 1.34 && x.dlts[0] === 3 && x.patients[0] === 3)!;
+    const base = { use: "next-dose", doses, target: 0.25, skeleton: c.skeleton, data: c.patients.map((p, i) => ({ patients: p, dlts: c.dlts[i]! })) };
+    const p = c.probabilityLowestAboveTarget;
+    expect(computeCrm(crm.input.parse({ ...base, safetyThreshold: Math.max(0.5, p - 0.01) })).nextDose).toMatchObject({ stoppedForSafety: true, recommendedDose: -1 });
+    expect(computeCrm(crm.input.parse({ ...base, safetyThreshold: Math.min(0.999, p + 0.01) })).nextDose!.stoppedForSafety).toBe(false);
+  });
+});
+
+describe("CRM fast posterior of the simulations", () => {
+  it("agrees with the adaptive reference to 1e-9 on 300 random data sets per model", () => {
+    for (const kind of ["power", "logistic"] as const) {
+      const random = createRandom(kind === "power" ? 11 : 12);
+      const model = { kind, skeleton: calibrateSkeleton(kind, 0.25, 0.05, 2, 5), intercept: 3, priorVariance: 1.34 };
+      const fast = new CrmFastPosterior(model, 0.25);
+      for (let t = 0; t < 300; t++) {
+        const most = [150, 30, 10][t % 3]!;
+        const n = Array.from({ length: 5 }, () => (random.uniform() < 0.6 ? random.integer(most) : 0));
+        const y = n.map((m) => random.integer(m + 1));
+        if (t % 7 === 0) y.fill(0);
+        if (t % 11 === 0) n.forEach((m, i) => { y[i] = m; });
+        const ref = crmPosterior(model, n, y, 0.25);
+        fast.update(n, y);
+        const where = { kind, n, y };
+        for (let i = 0; i < 5; i++) expectClose(fast.meanProbability[i]!, ref.meanProbability[i]!, 1e-9, { ...where, dose: i + 1 });
+        expectClose(fast.meanParameter, ref.meanParameter, 1e-8, { ...where, what: "E[a]" });
+        expectClose(fast.probabilityLowestAboveTarget, ref.probabilityLowestAboveTarget, 1e-9, { ...where, what: "P(p1 > target)" });
+      }
+    }
+  });
+});
+
+describe("CRM simulation", () => {
+  it("agrees with exact enumeration of small trials computed in R (within 4.5 Monte Carlo standard errors)", () => {
+    const f = loadFixture<{ name: string; model: CrmModelKind; skeleton: number[]; target: number; dltProbabilities: number[]; cohortSize: number; maxSampleSize: number;
+      startDose: number; safetyThreshold: number; selectionProbability: number[]; noSelectionProbability: number; meanPatients: number[]; meanSquaredPatients: number[] }>("crm/exact-operating-characteristics.json");
+    const trials = 12000;
+    for (const c of f.cases) {
+      const k = c.dltProbabilities.length;
+      const input = crm.input.parse({ doses: doses.slice(0, k), target: c.target, model: c.model, skeleton: c.skeleton, cohortSize: c.cohortSize, maxSampleSize: c.maxSampleSize,
+        startDose: c.startDose, safetyThreshold: c.safetyThreshold, scenarios: [{ name: c.name, dltProbabilities: c.dltProbabilities }], trials, seed: 3 });
+      const oc = computeCrm(input).operatingCharacteristics![0]!;
+      const se = (p: number): number => Math.sqrt((p * (1 - p)) / trials);
+      c.selectionProbability.forEach((p, i) => expectClose(oc.selectionProbability[i]!, p, f.tolerance * Math.max(se(p), 1 / trials), { name: c.name, dose: i + 1, what: "selection" }));
+      expectClose(oc.noSelectionProbability, c.noSelectionProbability, f.tolerance * Math.max(se(c.noSelectionProbability), 1 / trials), { name: c.name, what: "no selection" });
+      c.meanPatients.forEach((m, i) => {
+        const sd = Math.sqrt(Math.max(0, c.meanSquaredPatients[i]! - m * m));
+        expectClose(oc.meanPatients[i]!, m, f.tolerance * Math.max(sd, 1) / Math.sqrt(trials), { name: c.name, dose: i + 1, what: "patients" });
+      });
+    }
+  });
+
+  it("is reproducible: the same seed gives the same bytes, another seed other numbers", () => {
+    const a = canonicalJson(computeCrm(crm.input.parse(crm.example)));
+    expect(canonicalJson(computeCrm(crm.input.parse(crm.example)))).toBe(a);
+    expect(canonicalJson(computeCrm(crm.input.parse({ ...crm.example, seed: 5 })))).not.toBe(a);
+  });
+
+  it("never escalates by more than one dose above the highest tried", () => {
+    // All doses very safe: the trial must climb one dose per cohort from the lowest.
+    const input = crm.input.parse({ doses, target: 0.25, cohortSize: 1, maxSampleSize: 5, scenarios: [{ name: "safe", dltProbabilities: [0.001, 0.001, 0.001, 0.001, 0.001] }], trials: 200 });
+    const oc = computeCrm(input).operatingCharacteristics![0]!;
+    for (const m of oc.meanPatients.slice(0, 4)) expect(m).toBeGreaterThan(0.99);
+  });
+
+  it("refuses a plan above the compute budget with a 422 that says what to reduce", () => {
+    const scenario = { name: "s", dltProbabilities: [0.1, 0.2, 0.3, 0.4, 0.5] };
+    const input = crm.input.parse({ doses, cohortSize: 1, maxSampleSize: 150, trials: 20000, scenarios: [scenario] });
+    expect(() => computeCrm(input)).toThrow(InfeasibleDesignError);
+    expect(() => computeCrm(input)).toThrow(/Reduce the number of trials/);
+  });
+});
+
+describe("CRM input validation (400 with the field path)", () => {
+  const base = { doses, scenarios: [{ name: "s", dltProbabilities: [0.1, 0.2, 0.3, 0.4, 0.5] }] };
+  it("rejects a skeleton of the wrong length or not increasing", () => {
+    expect(pathsOf({ ...base, skeleton: [0.1, 0.2, 0.3] })).toContain("skeleton");
+    expect(pathsOf({ ...base, skeleton: [0.1, 0.2, 0.2, 0.4, 0.5] })).toContain("skeleton.2");
+    expect(pathsOf({ ...base, model: "logistic", skeleton: [0.1, 0.2, 0.3, 0.5, 0.96] })).toContain("skeleton.4");
+  });
+  it("rejects a target outside (0, 1) and a half-width the target cannot carry", () => {
+    expect(pathsOf({ ...base, target: 1 })).toContain("target");
+    expect(pathsOf({ ...base, target: -0.2 })).toContain("target");
+    expect(pathsOf({ ...base, target: 0.1, skeletonHalfWidth: 0.1 })).toContain("skeletonHalfWidth");
+  });
+  it("rejects more DLTs than patients, decreasing scenarios, and a plan without scenarios", () => {
+    const data = doses.map(() => ({ patients: 3, dlts: 0 }));
+    data[1] = { patients: 3, dlts: 5 };
+    expect(pathsOf({ doses, use: "next-dose", data })).toContain("data.1.dlts");
+    expect(pathsOf({ doses, scenarios: [{ name: "s", dltProbabilities: [0.1, 0.3, 0.2, 0.4, 0.5] }] })).toContain("scenarios.0.dltProbabilities.2");
+    expect(pathsOf({ doses })).toContain("scenarios");
+  });
+  it("accepts its own example", () => {
+    expect(crm.input.safeParse(crm.example).success).toBe(true);
+  });
+});
