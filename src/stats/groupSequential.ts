@@ -13,14 +13,14 @@
  * η√t_k, evenly spaced within ±3 standard deviations and spreading
  * logarithmically out to ±(3 + 4 log r), cut to the continuation interval with
  * its ends added, and midpoints inserted for Simpson's rule on each interval.
- * With r = 24 crossing probabilities agree with an independent fine-grid
- * computation to about 3e-8 (checked in the tests), inside the 1e-6 asked of
- * them; r = 16 gives about 4e-7 at two thirds of the cost.
+ * With r = 16 (Jennison & Turnbull's choice) crossing probabilities agree with
+ * an independent fine-grid computation to about 1.2e-7 (checked in the tests),
+ * inside the 1e-6 asked of them; r = 24 gives 2e-8 at twice the cost.
  */
 import { hartNormalCdf } from "./hartNormal.js";
 
 /** Grid parameter r of Jennison & Turnbull (2000, section 19.2.1). */
-export const DEFAULT_GRID_SIZE = 24;
+export const DEFAULT_GRID_SIZE = 16;
 
 const INV_SQRT_2PI = 1 / Math.sqrt(2 * Math.PI);
 
@@ -46,6 +46,13 @@ export function remainingProbability(state: ContinuationDensity): number {
   return sum;
 }
 
+/** 1 − Φ(x); beyond 9 standard deviations (1e-19) the tail is taken as 0 or 1. */
+function tail(x: number): number {
+  if (x > 9) return 0;
+  if (x < -9) return 1;
+  return hartNormalCdf(-x);
+}
+
 /** P(Z(t) > b, no earlier stop), from the continuation density of the previous look. */
 export function probabilityAbove(state: ContinuationDensity, t: number, b: number, drift: number): number {
   if (b === Infinity) return 0;
@@ -56,7 +63,7 @@ export function probabilityAbove(state: ContinuationDensity, t: number, b: numbe
   const rootS = Math.sqrt(s);
   let sum = 0;
   for (let i = 0; i < state.points.length; i++) {
-    sum += state.mass[i]! * hartNormalCdf(-(bScaled - state.points[i]! * rootS) / sd);
+    sum += state.mass[i]! * tail((bScaled - state.points[i]! * rootS) / sd);
   }
   return sum;
 }
@@ -71,7 +78,7 @@ export function probabilityBelow(state: ContinuationDensity, t: number, a: numbe
   const rootS = Math.sqrt(s);
   let sum = 0;
   for (let i = 0; i < state.points.length; i++) {
-    sum += state.mass[i]! * hartNormalCdf((aScaled - state.points[i]! * rootS) / sd);
+    sum += state.mass[i]! * tail(-(aScaled - state.points[i]! * rootS) / sd);
   }
   return sum;
 }
@@ -129,15 +136,18 @@ export function advance(state: ContinuationDensity, t: number, lower: number, up
   const m = from.length;
   const scaledFrom = new Float64Array(m);
   for (let i = 0; i < m; i++) scaledFrom[i] = from[i]! * rootS + shift;
-  // Beyond 40 standard deviations a term is below e^-800 and is skipped.
-  const cutoff = 40 * variance * 40;
+  // Terms more than 9 standard deviations away weigh less than e^-40 of the
+  // nearest and are skipped; both grids ascend, so the window slides.
+  const reach = 9 * sd;
+  let first = 0;
   for (let j = 0; j < points.length; j++) {
     const target = points[j]! * rootT;
+    while (first < m && scaledFrom[first]! < target - reach) first++;
     let sum = 0;
-    for (let i = 0; i < m; i++) {
+    for (let i = first; i < m; i++) {
       const d = target - scaledFrom[i]!;
-      const d2 = d * d;
-      if (d2 < cutoff) sum += fromMass[i]! * Math.exp(half * d2);
+      if (d < -reach) break;
+      sum += fromMass[i]! * Math.exp(half * d * d);
     }
     mass[j] = sum * scale * weights[j]!;
   }

@@ -79,6 +79,27 @@ export function spendingBoundaries(times: readonly number[], cumulativeAlpha: re
   return bounds;
 }
 
+/**
+ * Root of a smooth increasing function by the secant method from two nearby
+ * starts, for the drift searches where each evaluation is a whole pass of the
+ * recursion; falls back to bracketing when the secant steps misbehave.
+ */
+function secantRoot(f: (x: number) => number, x0: number, x1: number, lo: number, hi: number, tolerance: number): number {
+  let a = x0;
+  let fa = f(a);
+  let b = x1;
+  let fb = f(b);
+  for (let i = 0; i < 12; i++) {
+    if (Math.abs(fb) < 1e-12 || Math.abs(b - a) < tolerance) return b;
+    if (fb === fa) break;
+    const next = b - (fb * (b - a)) / (fb - fa);
+    if (!(next > lo && next < hi) || Math.abs(next - b) > 1) break;
+    a = b; fa = fb;
+    b = next; fb = f(b);
+  }
+  return rootNear(f, b, Math.max(Math.abs(b - a), tolerance) * 4, lo, hi, tolerance);
+}
+
 function totalCrossing(times: readonly number[], upper: readonly number[], sides: Sides, drift: number, r: number): number {
   const exits = exitProbabilities(times, upper.map((u) => ({ upper: u, lowerEfficacy: lowerEfficacyOf(u, sides), futility: -Infinity })), drift, r);
   return exits.reduce((sum, e) => sum + e.upper + e.lowerEfficacy, 0);
@@ -89,9 +110,11 @@ export type ClassicalShape = "pocock" | "obrien-fleming";
 /** Classical boundaries: Pocock's constant c, or O'Brien-Fleming's c/√t_k, with the constant c. */
 export function classicalBoundaries(times: readonly number[], shape: ClassicalShape, alpha: number, sides: Sides, r = DEFAULT_GRID_SIZE): { constant: number; upper: number[] } {
   const shapeAt = (c: number): number[] => times.map((t) => (shape === "pocock" ? c : c / Math.sqrt(t)));
-  const lo = normalQuantile(1 - alpha / sides) * 0.5;
-  const hi = normalQuantile(1 - alpha / sides / times.length) + 1;
-  const constant = findRoot((c) => totalCrossing(times, shapeAt(c), sides, 0, r) - alpha, lo, hi, { tolerance: 1e-10 });
+  // Between the single-look quantile and the Bonferroni one; the secant starts between them.
+  const single = normalQuantile(1 - alpha / sides);
+  const bonferroni = normalQuantile(1 - alpha / sides / times.length);
+  const guess = shape === "pocock" ? 0.4 * single + 0.6 * bonferroni : single + 0.05;
+  const constant = secantRoot((c) => alpha - totalCrossing(times, shapeAt(c), sides, 0, r), guess, guess + 0.01, 0.5 * single, bonferroni + 1, 1e-10);
   return { constant, upper: shapeAt(constant) };
 }
 
@@ -106,7 +129,7 @@ export function fixedDesignDrift(alpha: number, power: number, sides: Sides): nu
 export function driftForPower(times: readonly number[], upper: readonly number[], sides: Sides, power: number, r = DEFAULT_GRID_SIZE): number {
   const last = upper[upper.length - 1]!;
   const guess = last + normalQuantile(power);
-  return rootNear((eta) => totalCrossing(times, upper, sides, eta, r) - power, guess, 0.05, 0, 60, 1e-10);
+  return secantRoot((eta) => totalCrossing(times, upper, sides, eta, r) - power, guess, guess + 0.02, 0, 60, 1e-8);
 }
 
 /**
@@ -159,7 +182,7 @@ export function futilityAndDrift(times: readonly number[], upper: readonly numbe
   // a level-alpha single look's; the guess starts a little higher.
   const alpha = totalCrossing([1], [upper[upper.length - 1]!], sides, 0, r);
   const fixed = fixedDesignDrift(Math.min(0.5, alpha), power, sides);
-  const drift = rootNear(gap, fixed * 1.08, fixed * 0.03, 0, 60, 1e-9);
+  const drift = secantRoot(gap, fixed * 1.05, fixed * 1.06, 0, 60, 1e-8);
   return { drift, futility: futilityAtDrift(times, upper, cumulativeBeta, sides, drift, r).futility };
 }
 
