@@ -22,17 +22,17 @@ import { type Design, InfeasibleDesignError } from "./design.js";
 import type { Section } from "../report/document.js";
 import { betaQuantile } from "../stats/beta.js";
 import { binomialPmfArray } from "../stats/binomial.js";
-import { probabilityField } from "./shared/fields.js";
 
-/** Stage-1 sizes beyond this are refused (a p1 of 0.01 with beta 0.05 needs 299). */
+/** Stage-1 sizes beyond this are refused; the input bounds (p1 ≥ 0.01, beta ≥ 0.001) need at most 688. */
 export const GEHAN_MAX_N1 = 2000;
 
 const schema = z.strictObject({
-  p1: probabilityField("Smallest response rate that would make the drug worth further study (p1), as a proportion between 0 and 1."),
-  beta: z.number().gt(0).max(0.5).default(0.05)
+  p1: z.number().min(0.01).max(0.99)
+    .describe("Smallest response rate that would make the drug worth further study (p1), as a proportion from 0.01 to 0.99."),
+  beta: z.number().min(0.001).max(0.5).default(0.05)
     .describe("Largest accepted probability of stopping after stage 1 (no response at all) when the true response rate is p1."),
-  targetSE: z.number().gt(0).max(0.5).default(0.1)
-    .describe("Largest accepted standard error of the final estimate of the response rate, as a proportion (0.1 is 10 percentage points)."),
+  targetSE: z.number().min(0.01).max(0.5).default(0.1)
+    .describe("Largest accepted standard error of the final estimate of the response rate, as a proportion from 0.01 to 0.5 (0.1 is 10 percentage points)."),
   rateForStandardError: z.enum(["upper-confidence-limit", "stage-one-proportion"]).default("upper-confidence-limit")
     .describe("Rate used in the standard error when sizing stage 2: a conservative upper confidence limit from stage 1 (moved to 1/2 when the interval from the stage-1 proportion contains it), or the stage-1 proportion itself."),
   confidenceLevel: z.number().min(0.5).lt(1).default(0.75)
@@ -175,7 +175,7 @@ export const gehanTwoStage: Design<GehanTwoStageInput, GehanTwoStageResult> = {
   id: "gehan-two-stage",
   version: 1,
   stage: "activity",
-  title: "Gehan's two-stage design",
+  title: "Gehan two-stage design",
   summary: "Single-arm two-stage design that stops when stage 1 shows no response at all, then sizes stage 2 to estimate the response rate to a given standard error.",
   input: schema,
   example: { p1: 0.2, beta: 0.05, targetSE: 0.1, rateForStandardError: "upper-confidence-limit", confidenceLevel: 0.75 },

@@ -226,7 +226,7 @@ export const simonTwoStage: Design<SimonTwoStageInput, SimonTwoStageResult> = {
   id: "simon-two-stage",
   version: 1,
   stage: "activity",
-  title: "Simon's two-stage design",
+  title: "Simon two-stage design",
   summary: "Single-arm two-stage design that stops early when the response rate is plainly too low: optimal, minimax and admissible designs with exact alpha and power, or the characteristics of a given design.",
   input: schema,
   example: {

@@ -57,7 +57,7 @@ describe("Gehan's two-stage design", () => {
   });
 
   it("names the bad field", () => {
-    const r = gehanTwoStage.input.safeParse({ p1: 1.2, beta: 0, targetSE: -1 });
+    const r = gehanTwoStage.input.safeParse({ p1: 1.2, beta: 0, targetSE: 5e-324 });
     const paths = r.success ? [] : r.error.issues.map((i) => i.path.join("."));
     expect(paths).toEqual(expect.arrayContaining(["p1", "beta", "targetSE"]));
   });
