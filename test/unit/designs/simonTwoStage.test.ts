@@ -31,11 +31,33 @@ describe("Simon (1989) tables 1 and 2, alpha 0.05 (from memory of the tables)", 
     });
   }
 
+  it("p0 0.05, p1 0.25, power 0.9: optimal 0/9, then 3/30 with E(N | p0) 16.8 (from memory of table 1)", () => {
+    const result = simonTwoStage.compute(parse({ p0: 0.05, p1: 0.25, alpha: 0.05, power: 0.9, maxN: 60 }));
+    expect(rule(result.optimal!)).toEqual([0, 9, 3, 30]);
+    expect(result.optimal!.expectedSampleSize0.toFixed(1)).toBe("16.8");
+  });
+
   it("p0 0.1, p1 0.3, power 0.8: the optimal design has E(N | p0) 15.0 and PET 0.74 (from memory of table 1)", () => {
     const result = simonTwoStage.compute(parse({ p0: 0.1, p1: 0.3, alpha: 0.05, power: 0.8, maxN: 60 }));
     expect(result.optimal!.expectedSampleSize0.toFixed(1)).toBe("15.0");
     expect(result.optimal!.probabilityOfEarlyTermination0.toFixed(2)).toBe("0.74");
   });
+});
+
+describe("Simon (1989) tables 1 and 2, alpha 0.10, power 0.9 (from memory of the tables)", () => {
+  const recalled: Array<[number, number, number[], number[], string, string]> = [
+    [0.4, 0.6, [7, 18, 22, 46], [11, 28, 20, 41], "30.2", "33.8"],
+    [0.1, 0.3, [1, 12, 5, 35], [1, 16, 4, 25], "19.8", "20.4"],
+  ];
+  for (const [p0, p1, optimal, minimax, en0Optimal, en0Minimax] of recalled) {
+    it(`p0 ${p0}, p1 ${p1}: optimal ${optimal.join("/")} (E(N | p0) ${en0Optimal}), minimax ${minimax.join("/")} (${en0Minimax})`, () => {
+      const result = simonTwoStage.compute(parse({ p0, p1, alpha: 0.1, power: 0.9, maxN: 100 }));
+      expect(result.optimal!.expectedSampleSize0.toFixed(1)).toBe(en0Optimal);
+      expect(result.minimax!.expectedSampleSize0.toFixed(1)).toBe(en0Minimax);
+      expect(rule(result.optimal!)).toEqual(optimal);
+      expect(rule(result.minimax!)).toEqual(minimax);
+    });
+  }
 });
 
 describe("exact characteristics of the recalled designs (R 4.2 dbinom/pbinom fixture)", () => {
