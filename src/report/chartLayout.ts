@@ -92,6 +92,27 @@ function extent(values: number[]): [number, number] | null {
   return [lo, hi];
 }
 
+/** Words of a category label on at most `maxLines` lines of `maxWidth`; what does not fit is cut with an ellipsis. */
+function labelLines(text: string, maxWidth: number, size: number, maxLines: number): string[] {
+  const lines: string[] = [];
+  let line = "";
+  for (const word of text.split(/\s+/).filter((w) => w !== "")) {
+    const next = line === "" ? word : `${line} ${word}`;
+    if (estimateTextWidth(next, size) <= maxWidth || line === "") line = next;
+    else {
+      lines.push(line);
+      line = word;
+    }
+  }
+  if (line !== "") lines.push(line);
+  if (lines.length > maxLines) {
+    const kept = lines.slice(0, maxLines);
+    kept[maxLines - 1] = `${kept[maxLines - 1]} ${lines.slice(maxLines).join(" ")}`;
+    return kept.map((l) => truncate(l, maxWidth, size));
+  }
+  return lines.map((l) => truncate(l, maxWidth, size));
+}
+
 function truncate(text: string, maxWidth: number, size: number): string {
   if (estimateTextWidth(text, size) <= maxWidth) return text;
   const chars = [...text];
@@ -120,11 +141,16 @@ export function layoutChart(chart: Chart, box: ChartBox): ChartLayout {
   const yLabels = yScale.ticks.map((t) => tickLabel(t, yScale.step));
   const left = size * 2.4 + Math.max(...yLabels.map((l) => estimateTextWidth(l, size)), size) + 6;
   const right = size * 1.5;
-  const bottom = size * 4.2;
-  const plot = { x: left, y: top, width: Math.max(10, width - left - right), height: Math.max(10, height - top - bottom) };
-
   // Bars sit on category bands; other charts on a continuous x axis.
   const bandCount = isBars ? Math.max(categories.length, ...xs.map((x) => Math.round(x) + 1), 1) : 0;
+  const plotWidth = Math.max(10, width - left - right);
+  const categoryLines = isBars
+    ? [...Array(bandCount).keys()].map((t) => labelLines(categories[t] ?? String(t), plotWidth / bandCount - 3, size, 2))
+    : [];
+  const labelRows = Math.max(1, ...categoryLines.map((l) => l.length));
+  const bottom = size * (3.1 + 1.15 * labelRows);
+  const plot = { x: left, y: top, width: plotWidth, height: Math.max(10, height - top - bottom) };
+
   const xScale = isBars
     ? { min: -0.5, max: bandCount - 0.5, ticks: [...Array(bandCount).keys()], step: 1 }
     : niceScale(xExtent[0], xExtent[1], Math.max(3, Math.round(plot.width / 70)), chart.xDomain !== undefined);
@@ -144,8 +170,10 @@ export function layoutChart(chart: Chart, box: ChartBox): ChartLayout {
     const x = px(t);
     if (!isBars) primitives.push({ type: "line", x1: x, y1: plot.y, x2: x, y2: plot.y + plot.height, stroke: GRID, width: 0.6 });
     primitives.push({ type: "line", x1: x, y1: plot.y + plot.height, x2: x, y2: plot.y + plot.height + 3, stroke: RULE, width: 0.6 });
-    const label = isBars ? truncate(xLabelAt(t), bandWidth - 2, size) : xLabelAt(t);
-    primitives.push({ type: "text", x, y: plot.y + plot.height + size * 1.5, text: label, size, anchor: "middle", fill: MUTED });
+    const lines = isBars ? categoryLines[t] ?? [] : [xLabelAt(t)];
+    lines.forEach((label, k) => {
+      primitives.push({ type: "text", x, y: plot.y + plot.height + size * (1.5 + 1.15 * k), text: label, size, anchor: "middle", fill: MUTED });
+    });
   }
   primitives.push({ type: "line", x1: plot.x, y1: plot.y + plot.height, x2: plot.x + plot.width, y2: plot.y + plot.height, stroke: INK, width: 0.8 });
   primitives.push({ type: "line", x1: plot.x, y1: plot.y, x2: plot.x, y2: plot.y + plot.height, stroke: INK, width: 0.8 });

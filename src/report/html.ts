@@ -20,18 +20,25 @@ function numericColumns(table: Table): boolean[] {
   return table.columns.map((_, i) => table.rows.length > 0 && table.rows.every((row) => row[i] === null || typeof row[i] === "number"));
 }
 
+/** Tables with running text in their cells are stacked into one block per row on a phone. */
+function hasProse(table: Table): boolean {
+  return table.rows.some((row) => row.some((cell) => typeof cell === "string" && cell.length > 48));
+}
+
 function renderTable(table: Table, csvHref: string | null): string {
   const numeric = numericColumns(table);
+  const stack = hasProse(table);
   const head = table.columns.map((c, i) => `<th scope="col"${numeric[i] ? ' class="num"' : ""}>${columnLabel(c)}</th>`).join("");
   const body = table.rows.map((row) => `<tr>${table.columns.map((col, i) => {
     const cell = row[i] ?? null;
     const text = escapeMarkup(formatCell(cell, col.digits));
     const cls = numeric[i] ? ' class="num"' : "";
-    return i === 0 ? `<th scope="row"${cls}>${text}</th>` : `<td${cls}>${text}</td>`;
+    const label = stack ? ` data-label="${columnLabel(col)}"` : "";
+    return i === 0 ? `<th scope="row"${cls}>${text}</th>` : `<td${cls}${label}>${text}</td>`;
   }).join("")}</tr>`).join("\n");
   const csv = csvHref ? ` <a class="csv" href="${escapeMarkup(csvHref)}">CSV</a>` : "";
   const note = table.note ? `<p class="table-note">${escapeMarkup(table.note)}</p>` : "";
-  return `<div class="table-wrap" role="region" aria-labelledby="caption-${escapeMarkup(table.id)}" tabindex="0"><table id="table-${escapeMarkup(table.id)}"><caption id="caption-${escapeMarkup(table.id)}">${escapeMarkup(table.caption)}${csv}</caption><thead><tr>${head}</tr></thead><tbody>${body}</tbody></table></div>${note}`;
+  return `<div class="table-wrap" role="region" aria-labelledby="caption-${escapeMarkup(table.id)}" tabindex="0"><table id="table-${escapeMarkup(table.id)}"${stack ? ' class="stack"' : ""}><caption id="caption-${escapeMarkup(table.id)}">${escapeMarkup(table.caption)}${csv}</caption><thead><tr>${head}</tr></thead><tbody>${body}</tbody></table></div>${note}`;
 }
 
 function factValue(f: Fact): string {
