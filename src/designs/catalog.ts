@@ -5,6 +5,7 @@ import { twoProportions } from "./twoProportions.js";
 import { crossover2x2 } from "./crossover2x2.js";
 import { boin } from "./boin.js";
 import { crm } from "./crm.js";
+import { doseFindingComparison } from "./doseFindingComparison.js";
 import { threePlusThree } from "./threePlusThree.js";
 import { bayesianMonitoring } from "./bayesianMonitoring.js";
 import { timeToEvent } from "./timeToEvent.js";
@@ -21,6 +22,7 @@ export const catalog: readonly AnyDesign[] = [
   crossover2x2,
   boin,
   crm,
+  doseFindingComparison,
   threePlusThree,
   bayesianMonitoring,
   timeToEvent,
