@@ -168,9 +168,11 @@ function documentSimon(input: SimonTwoStageInput, res: SimonTwoStageResult): Sec
     { kind: "table", table: twoStageRuleTable(d) },
   ];
   if (res.mode === "search") {
-    const weight = (a: AdmissibleDesign): string => `${a.lowestWeight.toFixed(3)} to ${a.highestWeight.toFixed(3)}`;
-    const rows = [designRow("Optimal", res.optimal!, "0 (expected size only)"), designRow("Minimax", res.minimax!, "1 (maximum size only)")];
-    res.admissible.forEach((a, i) => rows.push(designRow(`Admissible ${i + 1}`, a, weight(a))));
+    const weight = (a: AdmissibleDesign): string => `${+a.lowestWeight.toFixed(3)}–${+a.highestWeight.toFixed(3)}`;
+    const last = res.admissible.length - 1;
+    // The minimax design is best at weight 1 and the optimal at weight 0: they open and close the list.
+    const label = (i: number): string => (i === 0 && i === last ? "Minimax and optimal" : i === 0 ? "Minimax" : i === last ? "Optimal" : "Admissible");
+    const rows = res.admissible.map((a, i) => designRow(label(i), a, weight(a)));
     blocks.push({
       kind: "table",
       table: {
@@ -182,10 +184,10 @@ function documentSimon(input: SimonTwoStageInput, res: SimonTwoStageResult): Sec
           { key: "en0", label: "E(N) at p0", digits: 2 }, { key: "en1", label: "E(N) at p1", digits: 2 },
           { key: "pet0", label: "PET at p0", digits: 3 }, { key: "pet1", label: "PET at p1", digits: 3 },
           { key: "alpha", label: "Alpha", digits: 4 }, { key: "power", label: "Power", digits: 4 },
-          { key: "weights", label: "Best for weights q" },
+          { key: "weights", label: "Best for q" },
         ],
         rows,
-        note: "An admissible design minimizes q·n + (1 − q)·E(N at p0) for every weight q in its range (Jung et al. 2004): q = 1 favours the smallest maximum size, q = 0 the smallest expected size.",
+        note: "Every admissible design (Jung et al. 2004), from the minimax to the optimal design. Each minimizes q·n + (1 − q)·E(N at p0) for every weight q in its range: q = 1 counts only the maximum size n, q = 0 only the expected size at p0. E(N): expected number of patients; PET: probability of early termination.",
       },
     });
   }
