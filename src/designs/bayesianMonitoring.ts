@@ -17,7 +17,10 @@
  * check with x responses among n, the predictive probability of reaching s is
  * PP = P(Y ≥ s - x) with Y ~ BetaBinomial(maxN - n, a + x, b + n - x); the
  * trial stops for futility when PP < futilityThreshold. Alpha and power are the
- * probabilities of declaring promise when the true rate is p0 and p1.
+ * probabilities of declaring promise when the true rate is p0 and p1. With
+ * thresholds "search", θT and θL are chosen on a grid for the given maxN
+ * (src/designs/shared/predictiveSearch.ts): alpha ≤ target, power ≥ target,
+ * smallest expected size at p0.
  *
  * Operating characteristics are exact: the distribution of the event count is
  * propagated patient by patient and absorbed at the boundary (src/stats/sequentialBinomial.ts).
@@ -37,9 +40,13 @@
 import { z } from "zod";
 import { type Design, InfeasibleDesignError } from "./design.js";
 import type { Cell, Section } from "../report/document.js";
-import { betaCdf, betaSurvival } from "../stats/beta.js";
-import { betaBinomialPmfArray } from "../stats/betaBinomial.js";
+import { betaSurvival } from "../stats/beta.js";
 import { type CheckRegion, sequentialBinomial } from "../stats/sequentialBinomial.js";
+import {
+  type BoundaryCheck, type BoundaryRun, type PosteriorRule, type PredictiveRule, checkSchedule, finalSuccessCount,
+  futilityBoundary, posteriorBeyond, posteriorBoundary, predictiveTable, runsOf,
+} from "./shared/bayesianRules.js";
+import { type ThresholdSearch, searchThresholds } from "./shared/predictiveSearch.js";
 
 export const MAX_PATIENTS = 300;
 const MAX_RATES = 30;
@@ -52,7 +59,7 @@ const probability = (description: string) =>
   z.number().gt(0, "A probability threshold must be strictly between 0 and 1.").lt(1, "A probability threshold must be strictly between 0 and 1.").describe(description);
 
 const POSTERIOR_ONLY = ["monitor", "limit", "threshold"] as const;
-const PREDICTIVE_ONLY = ["p0", "p1", "efficacyThreshold", "futilityThreshold"] as const;
+const PREDICTIVE_ONLY = ["p0", "p1", "thresholds", "efficacyThreshold", "futilityThreshold", "alpha", "power"] as const;
 
 const schema = z
   .strictObject({
@@ -64,8 +71,14 @@ const schema = z
     threshold: probability("Posterior rule: stop when the posterior probability that the rate is beyond the limit exceeds this (0.9 by default).").optional(),
     p0: rate("Predictive rule: the response rate of no interest (the null hypothesis).").optional(),
     p1: rate("Predictive rule: the target response rate, at which power is computed.").optional(),
+    thresholds: z.enum(["given", "search"]).optional()
+      .describe("Predictive rule: given (use efficacyThreshold and futilityThreshold as entered) or search (choose them on a grid so that alpha and power meet their targets with the smallest expected size at p0). Defaults to given."),
     efficacyThreshold: probability("Predictive rule: at the end the regimen is promising when P(response rate > p0 | data) exceeds this (0.9 by default).").optional(),
     futilityThreshold: probability("Predictive rule: stop for futility when the predictive probability of a promising final result is below this (0.05 by default).").optional(),
+    alpha: z.number().gt(0).max(0.5).optional()
+      .describe("Predictive rule with thresholds search: the largest acceptable probability of declaring promise when the response rate is p0 (0.1 by default)."),
+    power: z.number().gt(0).lt(1).optional()
+      .describe("Predictive rule with thresholds search: the smallest acceptable probability of declaring promise when the response rate is p1 (0.8 by default)."),
     priorA: z.number().gt(0).max(1000).default(1)
       .describe("Beta prior for the event rate: first shape a (prior events). a / (a + b) is the prior mean; a + b its weight in patients."),
     priorB: z.number().gt(0).max(1000).default(1)
@@ -77,7 +90,7 @@ const schema = z
     firstCheck: z.number().int().min(1).max(MAX_PATIENTS).optional()
       .describe("Number of patients at the first check (defaults to the cohort size)."),
     trueRates: z.array(rate("A true event rate.")).min(1).max(MAX_RATES, `At most ${MAX_RATES} true rates.`).optional()
-      .describe("True event rates at which to tabulate the operating characteristics (a grid from 0.05 to 0.95 by default, with the limit, or p0 and p1, added)."),
+      .describe("True event rates at which to tabulate the operating characteristics (a grid from 0.05 to 0.95 by default); the limit, or p0 and p1, are always added."),
   })
   .superRefine((v, ctx) => {
     const issue = (path: string, message: string): void => ctx.addIssue({ code: "custom", path: [path], message });
@@ -91,6 +104,16 @@ const schema = z
       if (v.p0 === undefined) issue("p0", "Give the response rate of no interest.");
       if (v.p1 === undefined) issue("p1", "Give the target response rate.");
       if (v.p0 !== undefined && v.p1 !== undefined && v.p1 <= v.p0) issue("p1", "The target response rate must exceed the rate of no interest (p0).");
+      if (v.thresholds === "search") {
+        for (const field of ["efficacyThreshold", "futilityThreshold"] as const) {
+          if (v[field] !== undefined) issue(field, `${field} is chosen by the search; remove it, or set thresholds to "given".`);
+        }
+        if (v.alpha !== undefined && v.power !== undefined && v.power <= v.alpha) issue("power", "Power must exceed alpha.");
+      } else {
+        for (const field of ["alpha", "power"] as const) {
+          if (v[field] !== undefined) issue(field, `${field} is a target for the threshold search; set thresholds to "search" or remove it.`);
+        }
+      }
     }
     if (v.cohortSize > v.maxN) {
       issue("cohortSize", "The cohort size cannot exceed the maximum number of patients.");
@@ -105,23 +128,12 @@ const schema = z
     firstCheck: v.firstCheck ?? v.cohortSize,
     ...(v.rule === "posterior"
       ? { monitor: v.monitor ?? "toxicity", threshold: v.threshold ?? 0.9 }
-      : { efficacyThreshold: v.efficacyThreshold ?? 0.9, futilityThreshold: v.futilityThreshold ?? 0.05 }),
+      : v.thresholds === "search"
+        ? { thresholds: "search" as const, alpha: v.alpha ?? 0.1, power: v.power ?? 0.8 }
+        : { thresholds: "given" as const, efficacyThreshold: v.efficacyThreshold ?? 0.9, futilityThreshold: v.futilityThreshold ?? 0.05 }),
   }));
 
 export type BayesianMonitoringInput = z.output<typeof schema>;
-
-export interface BoundaryCheck {
-  patients: number;
-  /** Toxicity: stop if events ≥ this. Response or predictive: stop if events ≤ this. null: no count stops here. */
-  stopAt: number | null;
-}
-
-/** Consecutive checks sharing one stopping count: "stop if at least (or at most) events among the first fromPatients..toPatients". */
-export interface BoundaryRun {
-  events: number;
-  fromPatients: number;
-  toPatients: number;
-}
 
 export interface RateCharacteristics {
   rate: number;
@@ -141,6 +153,10 @@ export interface BayesianMonitoringResult {
   runs: BoundaryRun[];
   /** Predictive rule: promising when at least this many responses among maxN. */
   finalSuccessCount: number | null;
+  /** Predictive rule: the thresholds used, as given or as chosen by the search. */
+  efficacyThreshold: number | null;
+  futilityThreshold: number | null;
+  search: ThresholdSearch | null;
   alpha: number | null;
   power: number | null;
   operatingCharacteristics: RateCharacteristics[];
@@ -149,45 +165,25 @@ export interface BayesianMonitoringResult {
   sizeCurve: Array<[number, number]>;
 }
 
-/** Check sizes: firstCheck, then every cohortSize, up to maxN. */
-export function checkSchedule(firstCheck: number, cohortSize: number, maxN: number, includeMaxN: boolean): number[] {
-  const out: number[] = [];
-  for (let n = firstCheck; n < maxN; n += cohortSize) out.push(n);
-  if (includeMaxN) out.push(maxN);
-  return out;
-}
+const posteriorRule = (input: BayesianMonitoringInput): PosteriorRule =>
+  ({ monitor: input.monitor!, limit: input.limit!, threshold: input.threshold!, priorA: input.priorA, priorB: input.priorB });
+const predictiveRule = (input: BayesianMonitoringInput): PredictiveRule =>
+  ({ p0: input.p0!, priorA: input.priorA, priorB: input.priorB, maxN: input.maxN });
 
-const posteriorBeyond = (input: BayesianMonitoringInput, x: number, n: number): number =>
-  input.monitor === "response"
-    ? betaCdf(input.limit!, input.priorA + x, input.priorB + n - x)
-    : betaSurvival(input.limit!, input.priorA + x, input.priorB + n - x);
-
-/** The posterior rule's boundary: the count at which P(beyond limit) first exceeds the threshold, per check. */
-export function posteriorBoundary(input: BayesianMonitoringInput): BoundaryCheck[] {
-  const t = input.threshold!;
-  const stops = (x: number, n: number): boolean => posteriorBeyond(input, x, n) > t;
-  const schedule = checkSchedule(input.firstCheck, input.cohortSize, input.maxN, true);
-  const out: BoundaryCheck[] = [];
-  // Both boundaries are non-decreasing in n (more patients need more events to
-  // alarm, and allow more responses to be too few), so each scan resumes.
-  let k = 0;
-  for (const n of schedule) {
-    if (input.monitor === "response") {
-      if (!stops(0, n)) { out.push({ patients: n, stopAt: null }); continue; }
-      while (k + 1 <= n && stops(k + 1, n)) k++;
-      out.push({ patients: n, stopAt: k });
-    } else {
-      while (k <= n && !stops(k, n)) k++;
-      out.push({ patients: n, stopAt: k <= n ? k : null });
-    }
-  }
-  return out;
-}
-
-/** The smallest n in 1..SEARCH_LIMIT at which `acts(n)` holds, or null. */
+/** The smallest n in 1..SEARCH_LIMIT at which `acts(n)` holds, for `acts` monotone in n (false, then true); or null. */
 function smallestSize(acts: (n: number) => boolean): number | null {
-  for (let n = 1; n <= SEARCH_LIMIT; n++) if (acts(n)) return n;
-  return null;
+  let hi = 1;
+  while (!acts(hi)) {
+    if (hi >= SEARCH_LIMIT) return null;
+    hi = Math.min(SEARCH_LIMIT, hi * 2);
+  }
+  let lo = Math.floor(hi / 2) + 1;
+  if (hi === 1) return 1;
+  while (lo < hi) {
+    const mid = Math.floor((lo + hi) / 2);
+    if (acts(mid)) hi = mid; else lo = mid + 1;
+  }
+  return hi;
 }
 
 function checkPosteriorFeasible(input: BayesianMonitoringInput, boundary: BoundaryCheck[]): void {
@@ -201,43 +197,13 @@ function checkPosteriorFeasible(input: BayesianMonitoringInput, boundary: Bounda
   }
   if (boundary.every((c) => c.stopAt === null)) {
     // The most alarming data at n (every patient an event, or none a response) alarm more as n grows.
-    const needed = smallestSize((n) => posteriorBeyond(input, input.monitor === "response" ? 0 : n, n) > input.threshold!);
+    const needed = smallestSize((n) => posteriorBeyond(posteriorRule(input), input.monitor === "response" ? 0 : n, n) > input.threshold!);
     const where = needed === null ? `no number of patients up to ${SEARCH_LIMIT}` : `at least ${needed} patients`;
     throw new InfeasibleDesignError(
       `The rule can never stop within ${input.maxN} patients: even the most unfavourable outcomes keep the posterior probability beyond the limit at or below ${input.threshold}. It needs ${where}${needed !== null && needed > MAX_PATIENTS ? ` (above the limit of ${MAX_PATIENTS})` : ""}, a lower threshold, or a weaker prior.`,
       { field: "maxN", ...(needed !== null ? { bound: needed } : {}), maxN: input.maxN },
     );
   }
-}
-
-/** Smallest response count among maxN with P(p > p0 | x, maxN) > efficacyThreshold, or null. */
-export function finalSuccessCount(input: BayesianMonitoringInput, maxN = input.maxN): number | null {
-  for (let x = 0; x <= maxN; x++) {
-    if (betaSurvival(input.p0!, input.priorA + x, input.priorB + maxN - x) > input.efficacyThreshold!) return x;
-  }
-  return null;
-}
-
-/** PP(x, n) = P(at least s - x responses among the maxN - n still to come | x of n). */
-export function predictiveProbability(input: BayesianMonitoringInput, s: number, x: number, n: number): number {
-  const m = input.maxN - n;
-  const need = s - x;
-  if (need <= 0) return 1;
-  if (need > m) return 0;
-  const pmf = betaBinomialPmfArray(m, input.priorA + x, input.priorB + n - x);
-  let sum = 0;
-  for (let y = need; y <= m; y++) sum += pmf[y]!;
-  return Math.min(1, sum);
-}
-
-/** The predictive rule's futility boundary: the largest count with PP below the threshold, per interim check. */
-export function predictiveBoundary(input: BayesianMonitoringInput, s: number): BoundaryCheck[] {
-  return checkSchedule(input.firstCheck, input.cohortSize, input.maxN, false).map((n) => {
-    // PP increases with x (the beta-binomial is stochastically increasing in its first shape).
-    let x = 0;
-    while (x <= n && predictiveProbability(input, s, x, n) < input.futilityThreshold!) x++;
-    return { patients: n, stopAt: x > 0 ? x - 1 : null };
-  });
 }
 
 function checkPredictiveFeasible(input: BayesianMonitoringInput, s: number | null, boundary: BoundaryCheck[]): asserts s is number {
@@ -263,20 +229,10 @@ function checkPredictiveFeasible(input: BayesianMonitoringInput, s: number | nul
   }
 }
 
-function runsOf(boundary: BoundaryCheck[]): BoundaryRun[] {
-  const runs: BoundaryRun[] = [];
-  for (const c of boundary) {
-    if (c.stopAt === null) continue;
-    const last = runs[runs.length - 1];
-    if (last && last.events === c.stopAt) last.toPatients = c.patients;
-    else runs.push({ events: c.stopAt, fromPatients: c.patients, toPatients: c.patients });
-  }
-  return runs;
-}
-
+/** The tabulated rates: the entered grid (or 0.05 to 0.95 by 0.05), always with the limit, or p0 and p1, which the report quotes. */
 function rateGrid(input: BayesianMonitoringInput): number[] {
-  const base = input.trueRates ?? [
-    ...Array.from({ length: 19 }, (_, i) => (i + 1) / 20),
+  const base = [
+    ...(input.trueRates ?? Array.from({ length: 19 }, (_, i) => (i + 1) / 20)),
     ...(input.rule === "posterior" ? [input.limit!] : [input.p0!, input.p1!]),
   ];
   return [...new Set(base)].sort((a, b) => a - b);
@@ -284,19 +240,41 @@ function rateGrid(input: BayesianMonitoringInput): number[] {
 
 const CURVE_RATES = Array.from({ length: 99 }, (_, i) => (i + 1) / 100);
 
+/** Thresholds of the predictive rule: as given, or chosen by the search. */
+function predictiveThresholds(input: BayesianMonitoringInput, checks: number[]): { efficacyThreshold: number; futilityThreshold: number; search: ThresholdSearch | null } {
+  if (input.thresholds !== "search") return { efficacyThreshold: input.efficacyThreshold!, futilityThreshold: input.futilityThreshold!, search: null };
+  const search = searchThresholds(predictiveRule(input), input.p1!, checks, input.alpha!, input.power!);
+  if (!search.chosen) {
+    const closest = search.mostPowerfulWithinAlpha;
+    throw new InfeasibleDesignError(
+      `No pair of thresholds on the grid (efficacy 0.80 to 0.99, futility 0.001 to 0.20) gives alpha at most ${input.alpha} and power at least ${input.power} with at most ${input.maxN} patients` +
+        (closest ? `; the most powerful pair within alpha reaches power ${closest.power.toFixed(4)} (efficacy ${closest.efficacyThreshold}, futility ${closest.futilityThreshold}).` : "; no pair keeps alpha within the target.") +
+        " Raise maxN, or relax the targets.",
+      { field: "maxN", maxN: input.maxN, evaluated: search.evaluated, ...(closest ? { bestPower: closest.power } : {}) },
+    );
+  }
+  return { efficacyThreshold: search.chosen.efficacyThreshold, futilityThreshold: search.chosen.futilityThreshold, search };
+}
+
 export function computeBayesianMonitoring(input: BayesianMonitoringInput): BayesianMonitoringResult {
   const maxN = input.maxN;
   let boundary: BoundaryCheck[];
   let s: number | null = null;
   let direction: "at-least" | "at-most";
+  let thresholds: ReturnType<typeof predictiveThresholds> | null = null;
   if (input.rule === "posterior") {
-    boundary = posteriorBoundary(input);
+    boundary = posteriorBoundary(posteriorRule(input), checkSchedule(input.firstCheck, input.cohortSize, maxN, true));
     checkPosteriorFeasible(input, boundary);
     direction = input.monitor === "response" ? "at-most" : "at-least";
   } else {
-    s = finalSuccessCount(input);
-    boundary = s === null || s === 0 ? [] : predictiveBoundary(input, s);
-    checkPredictiveFeasible(input, s, boundary);
+    const checks = checkSchedule(input.firstCheck, input.cohortSize, maxN, false);
+    thresholds = predictiveThresholds(input, checks);
+    const effective = { ...input, ...thresholds };
+    s = finalSuccessCount(predictiveRule(input), thresholds.efficacyThreshold);
+    boundary = s === null || s === 0
+      ? []
+      : futilityBoundary(predictiveTable(predictiveRule(input), s, checks, thresholds.futilityThreshold), checks, thresholds.futilityThreshold);
+    checkPredictiveFeasible(effective, s, boundary);
     direction = "at-most";
   }
   const regions: CheckRegion[] = boundary
@@ -327,6 +305,9 @@ export function computeBayesianMonitoring(input: BayesianMonitoringInput): Bayes
     boundary,
     runs: runsOf(boundary),
     finalSuccessCount: s,
+    efficacyThreshold: thresholds?.efficacyThreshold ?? null,
+    futilityThreshold: thresholds?.futilityThreshold ?? null,
+    search: thresholds?.search ?? null,
     alpha: s === null ? null : characteristics(input.p0!).probabilityPromising,
     power: s === null ? null : characteristics(input.p1!).probabilityPromising,
     operatingCharacteristics: rateGrid(input).map(characteristics),
@@ -357,7 +338,10 @@ function countText(events: number, patients: number, direction: "at-least" | "at
   return events === 0 ? `no ${event} among the first ${patients} patients` : `at most ${events} ${events === 1 ? event : plural} among the first ${patients} patients`;
 }
 
-function documentBayesianMonitoring(input: BayesianMonitoringInput, r: BayesianMonitoringResult): Section[] {
+function documentBayesianMonitoring(entered: BayesianMonitoringInput, r: BayesianMonitoringResult): Section[] {
+  const input: BayesianMonitoringInput = r.rule === "predictive"
+    ? { ...entered, efficacyThreshold: r.efficacyThreshold!, futilityThreshold: r.futilityThreshold! }
+    : entered;
   const posterior = r.rule === "posterior";
   const event = posterior && input.monitor !== "response" ? "toxicity" : "response";
   const prior = `Beta(${input.priorA}, ${input.priorB})`;
@@ -367,7 +351,7 @@ function documentBayesianMonitoring(input: BayesianMonitoringInput, r: BayesianM
       : `stop when P(toxicity rate > ${input.limit} | data) > ${input.threshold}`
     : `stop for futility when the predictive probability of a promising final result is below ${input.futilityThreshold}`;
   const firstRun = r.runs[0]!;
-  const at = (rate: number): RateCharacteristics => r.operatingCharacteristics.find((c) => c.rate === rate) ?? computeAt(input, rate);
+  const at = (rate: number): RateCharacteristics => r.operatingCharacteristics.find((c) => c.rate === rate)!;
 
   const facts = posterior
     ? (() => {
@@ -391,6 +375,8 @@ function documentBayesianMonitoring(input: BayesianMonitoringInput, r: BayesianM
           { label: `Probability of early termination at p0 = ${input.p0}`, value: p0.probabilityOfEarlyTermination, digits: 4, key: true },
           { label: `Expected patients at p0 = ${input.p0}`, value: p0.expectedSampleSize, digits: 2, key: true },
           { label: `Expected patients at p1 = ${input.p1}`, value: p1.expectedSampleSize, digits: 2 },
+          { label: "Efficacy threshold (θT)", value: r.efficacyThreshold, note: r.search ? "chosen by the search" : undefined },
+          { label: "Futility threshold (θL)", value: r.futilityThreshold, note: r.search ? "chosen by the search" : undefined },
           { label: "Prior", value: prior, note: `mean ${fmt(input.priorA / (input.priorA + input.priorB))}, weight ${input.priorA + input.priorB} patients` },
         ];
       })();
@@ -467,6 +453,7 @@ function documentBayesianMonitoring(input: BayesianMonitoringInput, r: BayesianM
         },
       ],
     },
+    ...(r.search ? [searchSection(input, r.search)] : []),
     {
       id: "operating-characteristics",
       title: "Operating characteristics (exact)",
@@ -503,14 +490,39 @@ function documentBayesianMonitoring(input: BayesianMonitoringInput, r: BayesianM
   ];
 }
 
-/** Operating characteristics at one rate not in the stored grid (user-chosen grids may omit the limit). */
-function computeAt(input: BayesianMonitoringInput, trueRate: number): RateCharacteristics {
-  return computeBayesianMonitoring({ ...input, trueRates: [trueRate] }).operatingCharacteristics[0]!;
+function searchSection(input: BayesianMonitoringInput, search: ThresholdSearch): Section {
+  return {
+    id: "threshold-search",
+    title: "Threshold search",
+    blocks: [
+      {
+        kind: "paragraph",
+        text: `Every pair of an efficacy threshold θT (0.80 to 0.99 by 0.01) and a futility threshold θL (0.001, 0.005, then 0.01 to 0.20 by 0.01) was evaluated exactly with at most ${input.maxN} patients; thresholds that give the same final rule count once. ${search.feasible} of ${search.evaluated} distinct designs have alpha at most ${input.alpha} at p0 = ${input.p0} and power at least ${input.power} at p1 = ${input.p1}; the one with the smallest expected number of patients at p0 was chosen.`,
+      },
+      {
+        kind: "table",
+        table: {
+          id: "threshold-search",
+          caption: "Best designs meeting the targets",
+          columns: [
+            { key: "efficacy", label: "θT" },
+            { key: "futility", label: "θL" },
+            { key: "final", label: "Promising if responses at least" },
+            { key: "alpha", label: "Alpha", digits: 4 },
+            { key: "power", label: "Power", digits: 4 },
+            { key: "pet", label: "P(early stop) at p0", digits: 4 },
+            { key: "size", label: "Expected patients at p0", digits: 2 },
+          ],
+          rows: search.best.map((c) => [c.efficacyThreshold, c.futilityThreshold, c.finalSuccessCount, c.alpha, c.power, c.probabilityOfEarlyTerminationAtP0, c.expectedSizeAtP0]),
+        },
+      },
+    ],
+  };
 }
 
 export const bayesianMonitoring: Design<BayesianMonitoringInput, BayesianMonitoringResult> = {
   id: "bayesian-monitoring",
-  version: 1,
+  version: 2,
   stage: "monitoring",
   title: "Bayesian monitoring of a single-arm trial",
   summary: "Stopping boundaries a clinic can follow for continuous Bayesian monitoring of toxicity or futility (posterior probability), or for futility by predictive probability, with exact stopping probabilities, expected sizes, alpha and power.",

@@ -33,6 +33,8 @@ export interface SequentialBinomialOutcome {
  * @param maxN maximum number of patients
  * @param checks stopping regions, with strictly increasing `patients` in 1..maxN
  */
+const NEGLIGIBLE = 1e-280;
+
 export function sequentialBinomial(rate: number, maxN: number, checks: readonly CheckRegion[]): SequentialBinomialOutcome {
   let f = new Float64Array(maxN + 1);
   let g = new Float64Array(maxN + 1);
@@ -48,6 +50,10 @@ export function sequentialBinomial(rate: number, maxN: number, checks: readonly 
     [f, g] = [g, f];
     g.fill(0, lo, hi + 2);
     hi++;
+    // Drop tails below 1e-280: they cannot move any reported probability, and
+    // subnormal numbers would slow the loop a hundredfold.
+    while (lo < hi && f[lo]! < NEGLIGIBLE) f[lo++] = 0;
+    while (hi > lo && f[hi]! < NEGLIGIBLE) f[hi--] = 0;
   };
   const stopLow: number[] = [];
   const stopHigh: number[] = [];

@@ -28,7 +28,17 @@ describe("bayesian-monitoring over HTTP", () => {
     expect(body.result.power).toBeGreaterThan(body.result.alpha);
   });
 
+  it("freezes a threshold search, reporting the thresholds it chose", async () => {
+    const res = await post({ rule: "predictive", thresholds: "search", p0: 0.2, p1: 0.4, priorA: 0.2, priorB: 0.8, maxN: 40, firstCheck: 10, alpha: 0.1, power: 0.8 });
+    expect(res.status).toBe(201);
+    const body = await res.json<{ result: { efficacyThreshold: number; futilityThreshold: number; alpha: number; power: number } }>();
+    expect(body.result.alpha).toBeLessThanOrEqual(0.1);
+    expect(body.result.power).toBeGreaterThanOrEqual(0.8);
+    expect(body.result.efficacyThreshold).toBeGreaterThanOrEqual(0.8);
+  });
+
   const bad: Array<[string, unknown, string]> = [
+    ["a futility threshold alongside a search", { rule: "predictive", thresholds: "search", p0: 0.2, p1: 0.4, maxN: 30, futilityThreshold: 0.1 }, "inputs.futilityThreshold"],
     ["a missing limit", { maxN: 30 }, "inputs.limit"],
     ["a limit outside (0, 1)", { limit: 1.5, maxN: 30 }, "inputs.limit"],
     ["too many patients", { limit: 0.3, maxN: 1000 }, "inputs.maxN"],
@@ -53,6 +63,7 @@ describe("bayesian-monitoring over HTTP", () => {
     ["a prior that stops at once", { limit: 0.3, priorA: 9, priorB: 1, maxN: 20 }, { field: "threshold" }],
     ["a final rule no result can meet", { rule: "predictive", p0: 0.5, p1: 0.7, efficacyThreshold: 0.99, maxN: 5, firstCheck: 2 }, { field: "maxN", bound: 6 }],
     ["a futility rule that always stops", { rule: "predictive", p0: 0.3, p1: 0.5, maxN: 40, firstCheck: 2, futilityThreshold: 0.99 }, { field: "futilityThreshold" }],
+    ["a threshold search with no design meeting the targets", { rule: "predictive", thresholds: "search", p0: 0.2, p1: 0.35, priorA: 0.2, priorB: 0.8, maxN: 20, firstCheck: 5, alpha: 0.05, power: 0.9 }, { field: "maxN" }],
   ];
   for (const [what, inputs, details] of infeasible) {
     it(`answers 422 for ${what}`, async () => {

@@ -3,9 +3,8 @@
 // example, a seeded Monte Carlo of the same rules, and the 400/422 paths.
 import { describe, expect, it } from "vitest";
 import { expectClose, loadFixture } from "../../support/fixtures.js";
-import {
-  type BayesianMonitoringInput, bayesianMonitoring, predictiveProbability,
-} from "../../../src/designs/bayesianMonitoring.js";
+import { type BayesianMonitoringInput, bayesianMonitoring } from "../../../src/designs/bayesianMonitoring.js";
+import { predictiveProbability } from "../../../src/designs/shared/bayesianRules.js";
 import { InfeasibleDesignError } from "../../../src/designs/design.js";
 import { betaCdf, betaSurvival } from "../../../src/stats/beta.js";
 import { betaBinomialPmf } from "../../../src/stats/betaBinomial.js";
@@ -46,9 +45,10 @@ describe("bayesian-monitoring against R (test/fixtures/bayesian-monitoring/gener
         expectClose(r.alpha!, c.alpha!, f.tolerance, { ...raw, alpha: true });
         expectClose(r.power!, c.power!, f.tolerance, { ...raw, power: true });
       }
-      expect(r.operatingCharacteristics.map((o) => o.rate)).toEqual(c.rates);
-      r.operatingCharacteristics.forEach((o, i) => {
-        const at = { ...raw, rate: o.rate };
+      c.rates.forEach((rate, i) => {
+        const o = r.operatingCharacteristics.find((row) => row.rate === rate)!;
+        expect(o).toBeDefined();
+        const at = { ...raw, rate };
         if (c.rule === "posterior") expectClose(o.probabilityOfStopping, c.probabilityOfStopping![i]!, f.tolerance, at);
         else expectClose(o.probabilityPromising!, c.probabilityPromising![i]!, f.tolerance, at);
         expectClose(o.probabilityOfEarlyTermination, c.probabilityOfEarlyTermination[i]!, f.tolerance, at);
@@ -58,11 +58,48 @@ describe("bayesian-monitoring against R (test/fixtures/bayesian-monitoring/gener
   }
 });
 
+interface SearchCase {
+  feasible: boolean;
+  chosenEfficacyThreshold: number | null;
+  chosenFutilityThreshold: number | null;
+  chosenFinalSuccessCount: number | null;
+  chosenAlpha: number | null;
+  chosenPower: number | null;
+  chosenExpectedSizeAtP0: number | null;
+  bestPowerWithinAlpha: number | null;
+  [field: string]: unknown;
+}
+
+describe("predictive threshold search against R's full grid search (test/fixtures/bayesian-monitoring/generate.R)", () => {
+  const f = loadFixture<SearchCase>("bayesian-monitoring/threshold-search.json");
+  const fields = ["rule", "thresholds", "p0", "p1", "priorA", "priorB", "maxN", "cohortSize", "firstCheck", "alpha", "power"];
+  for (const c of f.cases) {
+    const raw = Object.fromEntries(fields.map((k) => [k, c[k]]));
+    it(`${c.feasible ? "chooses the same thresholds" : "finds no design, with the same best power"} for ${JSON.stringify(raw)}`, () => {
+      if (!c.feasible) {
+        let error: unknown;
+        try { bayesianMonitoring.compute(parse(raw)); } catch (e) { error = e; }
+        expect(error).toBeInstanceOf(InfeasibleDesignError);
+        expectClose((error as InfeasibleDesignError).details.bestPower as number, c.bestPowerWithinAlpha!, f.tolerance, raw);
+        return;
+      }
+      const r = bayesianMonitoring.compute(parse(raw));
+      expect(r.efficacyThreshold).toBe(c.chosenEfficacyThreshold);
+      expect(r.futilityThreshold).toBe(c.chosenFutilityThreshold);
+      expect(r.finalSuccessCount).toBe(c.chosenFinalSuccessCount);
+      expectClose(r.alpha!, c.chosenAlpha!, f.tolerance, { ...raw, alpha: true });
+      expectClose(r.power!, c.chosenPower!, f.tolerance, { ...raw, power: true });
+      expectClose(r.search!.chosen!.expectedSizeAtP0, c.chosenExpectedSizeAtP0!, f.tolerance * 100, raw);
+      expect(r.search!.best[0]).toEqual(r.search!.chosen);
+    });
+  }
+});
+
 describe("published example", () => {
   it("Lee & Liu 2008, Table 1: 16 responses of 23, Nmax 40, Beta(0.6, 0.4) prior, p0 0.6, θT 0.9 gives PP 0.5656 (from memory of Lee & Liu 2008, Table 1)", () => {
     const input = parse({ rule: "predictive", p0: 0.6, p1: 0.8, priorA: 0.6, priorB: 0.4, maxN: 40, firstCheck: 10, efficacyThreshold: 0.9 });
     const r = bayesianMonitoring.compute(input);
-    expectClose(predictiveProbability(input, r.finalSuccessCount!, 16, 23), 0.5656, 5e-5, { x: 16, n: 23 });
+    expectClose(predictiveProbability({ p0: input.p0!, priorA: input.priorA, priorB: input.priorB, maxN: input.maxN }, r.finalSuccessCount!, 16, 23), 0.5656, 5e-5, { x: 16, n: 23 });
   });
 });
 
@@ -143,7 +180,7 @@ describe("exact operating characteristics against a seeded Monte Carlo of the sa
     const r = bayesianMonitoring.compute(parse({ ...bayesianMonitoring.example, trueRates: [0.2, 0.4] }));
     [0.2, 0.4].forEach((rate, i) => {
       const sim = simulatePosterior(input, rate, trials, 11 + i);
-      const exact = r.operatingCharacteristics[i]!;
+      const exact = r.operatingCharacteristics.find((o) => o.rate === rate)!;
       within(sim.stop, exact.probabilityOfStopping, Math.sqrt(exact.probabilityOfStopping * (1 - exact.probabilityOfStopping)), { rate, stop: true });
       within(sim.early, exact.probabilityOfEarlyTermination, Math.sqrt(exact.probabilityOfEarlyTermination * (1 - exact.probabilityOfEarlyTermination)), { rate, early: true });
       within(sim.size, exact.expectedSampleSize, input.maxN / 2, { rate, size: true });
@@ -152,7 +189,7 @@ describe("exact operating characteristics against a seeded Monte Carlo of the sa
   it(`posterior futility rule checked by cohorts of 5, at 0.1 (seed 13; ${trials} trials)`, () => {
     const raw = { rule: "posterior", monitor: "response", limit: 0.2, threshold: 0.95, maxN: 30, cohortSize: 5 };
     const input = parse(raw);
-    const exact = bayesianMonitoring.compute(parse({ ...raw, trueRates: [0.1] })).operatingCharacteristics[0]!;
+    const exact = bayesianMonitoring.compute(parse({ ...raw, trueRates: [0.1] })).operatingCharacteristics.find((o) => o.rate === 0.1)!;
     const sim = simulatePosterior(input, 0.1, trials, 13);
     within(sim.stop, exact.probabilityOfStopping, Math.sqrt(exact.probabilityOfStopping * (1 - exact.probabilityOfStopping)), { stop: true });
     within(sim.size, exact.expectedSampleSize, input.maxN / 2, { size: true });
@@ -189,6 +226,7 @@ describe("bayesian-monitoring inputs", () => {
     const p = parse({ rule: "predictive", p0: 0.1, p1: 0.3, maxN: 20, cohortSize: 4 });
     expect(p).toMatchObject({ efficacyThreshold: 0.9, futilityThreshold: 0.05, firstCheck: 4 });
     expect(p.threshold).toBeUndefined();
+    expect(parse({ rule: "predictive", p0: 0.1, p1: 0.3, maxN: 20, thresholds: "search" })).toMatchObject({ alpha: 0.1, power: 0.8 });
   });
   it("names the field of each bad input", () => {
     expect(paths({ maxN: 20 })).toEqual(["limit"]);
@@ -200,6 +238,10 @@ describe("bayesian-monitoring inputs", () => {
     expect(paths({ rule: "predictive", p0: 0.3, p1: 0.3, maxN: 20 })).toEqual(["p1"]);
     expect(paths({ rule: "predictive", p0: 0.3, p1: 0.5, maxN: 20, firstCheck: 20 })).toEqual(["firstCheck"]);
     expect(paths({ rule: "predictive", p0: 0.3, p1: 0.5, maxN: 20, limit: 0.2, threshold: 0.8 })).toEqual(["limit", "threshold"]);
+    expect(paths({ rule: "predictive", p0: 0.3, p1: 0.5, maxN: 20, thresholds: "search", futilityThreshold: 0.1 })).toEqual(["futilityThreshold"]);
+    expect(paths({ rule: "predictive", p0: 0.3, p1: 0.5, maxN: 20, alpha: 0.1 })).toEqual(["alpha"]);
+    expect(paths({ rule: "predictive", p0: 0.3, p1: 0.5, maxN: 20, thresholds: "search", alpha: 0.2, power: 0.1 })).toEqual(["power"]);
+    expect(paths({ limit: 0.3, maxN: 20, thresholds: "search" })).toEqual(["thresholds"]);
   });
   const infeasible = (raw: unknown): InfeasibleDesignError => {
     try {
