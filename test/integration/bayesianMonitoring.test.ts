@@ -31,10 +31,17 @@ describe("bayesian-monitoring over HTTP", () => {
   it("freezes a threshold search, reporting the thresholds it chose", async () => {
     const res = await post({ rule: "predictive", thresholds: "search", p0: 0.2, p1: 0.4, priorA: 0.2, priorB: 0.8, maxN: 40, firstCheck: 10, alpha: 0.1, power: 0.8 });
     expect(res.status).toBe(201);
-    const body = await res.json<{ result: { efficacyThreshold: number; futilityThreshold: number; alpha: number; power: number } }>();
+    const body = await res.json<{ id: string; result: { efficacyThreshold: number; futilityThreshold: number; alpha: number; power: number } }>();
     expect(body.result.alpha).toBeLessThanOrEqual(0.1);
     expect(body.result.power).toBeGreaterThanOrEqual(0.8);
     expect(body.result.efficacyThreshold).toBeGreaterThanOrEqual(0.8);
+    // The report of a searched design carries its search table, in HTML and in the PDF.
+    const html = await SELF.fetch(`https://example.com/c/${body.id}`);
+    expect(html.status).toBe(200);
+    expect(await html.text()).toContain("Threshold search");
+    const pdf = await SELF.fetch(`https://example.com/c/${body.id}.pdf`);
+    expect(pdf.status).toBe(200);
+    expect(pdf.headers.get("content-type")).toBe("application/pdf");
   });
 
   const bad: Array<[string, unknown, string]> = [
