@@ -31,7 +31,7 @@ import {
   type GroupSequentialPlan, type GroupSequentialSpec, equallySpaced, planGroupSequential, recomputeAtObservedLooks,
 } from "./shared/groupSequentialPlan.js";
 import { boundaryChart, boundaryMethodText, decisionTable, exitTable, groupSequentialReferences } from "./shared/groupSequentialReport.js";
-import { groupSequentialFields, refineFractions } from "./shared/interimLooks.js";
+import { MAX_POWER, MIN_ALPHA, groupSequentialFields, refineFractions } from "./shared/interimLooks.js";
 
 const schema = z
   .strictObject({
@@ -42,9 +42,9 @@ const schema = z
     ...groupSequentialFields,
     sides: z.union([z.literal(1), z.literal(2)]).default(2)
       .describe("1 for a one-sided test (efficacy in favour of the experimental arm only), 2 for a two-sided test with symmetric boundaries."),
-    alpha: z.number().gt(0).max(0.5).default(0.05)
+    alpha: z.number().min(MIN_ALPHA).max(0.5).default(0.05)
       .describe("Type I error rate of the whole sequence of looks (for a two-sided test, split equally between the two tails)."),
-    power: z.number().gt(0).lt(1).default(0.9)
+    power: z.number().gt(0).max(MAX_POWER).default(0.9)
       .describe("Power at the alternative the maximum information is planned for (1 - beta)."),
     observedFractions: z.array(z.number().gt(0).max(1.5)).min(1).max(10).optional()
       .describe("observed-looks mode: information fractions actually reached at the looks held so far (of the planned maximum information), in increasing order; a value of 1 or more is the final analysis."),

@@ -28,7 +28,9 @@ import {
   type ArmSizes, armsFromControl, detectableEffect, inflateForDropout, powerCurve, smallestSampleSize,
 } from "./shared/sizing.js";
 import { comparativeCommonFields } from "./shared/fields.js";
-import { type InterimLooksResult, interimLooksField, interimLooksProtocolText, interimLooksSections, planInterimLooks } from "./shared/interimLooks.js";
+import {
+  type InterimLooksResult, interimLooksField, interimLooksProtocolText, interimLooksSections, planInterimLooks, refineInterimTest,
+} from "./shared/interimLooks.js";
 
 const MAX_PER_ARM = 100000;
 
@@ -71,6 +73,7 @@ const schema = z
     if (v.interimLooks !== undefined) {
       if (v.solveFor !== "sample-size") issue("interimLooks", "Interim looks are planned with the sample size: set solveFor to sample-size, or leave interimLooks out.");
       if (v.hypothesis === "equivalence") issue("interimLooks", "Interim looks are offered for superiority and non-inferiority tests, not for equivalence (two one-sided tests).");
+      refineInterimTest(v.alpha, v.power, issue);
     }
   })
   .transform((v) => ({ ...v, sides: v.sides ?? (v.hypothesis === "superiority" ? 2 : 1) }));

@@ -18,6 +18,16 @@ const spendingFamilies = ["obrien-fleming-type", "pocock-type", "hwang-shih-deca
 
 const MIN_GAP = 0.01;
 
+/** Bounds that keep every boundary finite and every probability resolvable. */
+export const MIN_ALPHA = 1e-5;
+export const MAX_POWER = 0.9999;
+
+/** The host design's alpha and power, checked for a group-sequential plan. */
+export function refineInterimTest(alpha: number, power: number, issue: (path: string, message: string) => void): void {
+  if (alpha < MIN_ALPHA) issue("alpha", `With interim looks, alpha must be at least ${MIN_ALPHA}.`);
+  if (power > MAX_POWER) issue("power", `With interim looks, power must be at most ${MAX_POWER}.`);
+}
+
 /** Fields that define the boundaries of a group-sequential plan. */
 export const groupSequentialFields = {
   informationFractions: z.array(z.number().min(MIN_GAP).max(1)).min(1).max(10).optional()
