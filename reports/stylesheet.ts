@@ -32,6 +32,7 @@ dl.key{display:grid;grid-template-columns:repeat(auto-fill,minmax(11rem,1fr));ga
 dl.key div{background:${KEY_BACKGROUND};border:1px solid ${RULE};border-radius:4px;padding:.5rem .7rem;break-inside:avoid}
 dl.key dt{font-size:.8rem;color:${MUTED};font-weight:400}
 dl.key dd{margin:0;font-size:1.35rem;font-weight:700;font-variant-numeric:tabular-nums}
+dl.key dd.long{font-size:1rem;line-height:1.35}
 dl.key small{display:block;font-size:.75rem;font-weight:400;color:${MUTED}}
 .table-wrap{overflow-x:auto;margin:.75rem 0}
 table{border-collapse:collapse;font-size:.9rem;min-width:50%}

@@ -29,3 +29,6 @@ export const PAGE_MARGIN = { top: 62, bottom: 58, left: 54, right: 54 } as const
 
 /** Type scale in points, used by the PDF; the HTML stylesheet uses the same ratios in rem. */
 export const TYPE = { body: 9.5, small: 7.5, caption: 8.5, h1: 17, h2: 12.5, eyebrow: 8, table: 8.5, chart: 8 } as const;
+
+/** A headline value longer than this many characters (a list, a model name) is set at body size, not headline size. */
+export const LONG_KEY_VALUE = 14;

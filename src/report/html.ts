@@ -5,6 +5,7 @@
  * forbids scripts as a second guard.
  */
 import { REPORT_STYLESHEET } from "../../reports/stylesheet.js";
+import { LONG_KEY_VALUE } from "../../reports/theme.js";
 import type { ReportDocument } from "./build.js";
 import { mainTables } from "./build.js";
 import { type Block, type Column, type Fact, type Section, type Table, formatCell } from "./document.js";
@@ -46,7 +47,10 @@ function factValue(f: Fact): string {
 }
 
 function renderFacts(facts: Fact[], key: boolean): string {
-  return `<dl class="${key ? "key" : "facts"}">${facts.map((f) => `<div><dt>${escapeMarkup(f.label)}</dt><dd>${factValue(f)}</dd></div>`).join("")}</dl>`;
+  return `<dl class="${key ? "key" : "facts"}">${facts.map((f) => {
+    const long = key && formatCell(f.value, f.digits).length + (f.unit?.length ?? 0) > LONG_KEY_VALUE;
+    return `<div><dt>${escapeMarkup(f.label)}</dt><dd${long ? ' class="long"' : ""}>${factValue(f)}</dd></div>`;
+  }).join("")}</dl>`;
 }
 
 function renderBlock(block: Block, section: Section, doc: ReportDocument, csvTables: Set<string>): string {

@@ -13,7 +13,7 @@ import fontkit from "@pdf-lib/fontkit";
 import type { Font, Glyph } from "@pdf-lib/fontkit";
 import { LineCapStyle, PDFDocument, type PDFFont, type PDFPage, type RGB, degrees, rgb } from "pdf-lib";
 import {
-  ACCENT, INK, KEY_BACKGROUND, MUTED, PAGE_MARGIN, PAPER, PROTOCOL_BACKGROUND, RULE, type Paper, TYPE,
+  ACCENT, INK, KEY_BACKGROUND, LONG_KEY_VALUE, MUTED, PAGE_MARGIN, PAPER, PROTOCOL_BACKGROUND, RULE, type Paper, TYPE,
 } from "../../reports/theme.js";
 import type { ReportDocument } from "./build.js";
 import { type Anchor, type Primitive, layoutChart } from "./chartLayout.js";
@@ -207,18 +207,20 @@ function drawKeyFacts(w: Writer, facts: Fact[]): void {
   for (let start = 0; start < facts.length; start += columns) {
     const row = facts.slice(start, start + columns).map((f) => {
       const label = wrapText(w.regular.metrics, w.regular.metrics.sanitize(f.label), TYPE.small, inner);
-      const value = wrapText(w.bold.metrics, w.bold.metrics.sanitize(factText(f, false)), 13, inner);
+      const text = factText(f, false);
+      const size = text.length > LONG_KEY_VALUE ? 9.5 : 13;
+      const value = wrapText(w.bold.metrics, w.bold.metrics.sanitize(text), size, inner);
       const note = f.note ? wrapText(w.regular.metrics, w.regular.metrics.sanitize(f.note), TYPE.small, inner) : [];
-      return { label, value, note };
+      return { label, value, note, size };
     });
-    const height = Math.max(...row.map((c) => c.label.length * TYPE.small * LINE + c.value.length * 13 * 1.2 + c.note.length * TYPE.small * LINE)) + 12;
+    const height = Math.max(...row.map((c) => c.label.length * TYPE.small * LINE + c.value.length * c.size * 1.2 + c.note.length * TYPE.small * LINE)) + 12;
     w.ensure(height + gap);
     row.forEach((c, i) => {
       const x = w.left + i * (cardWidth + gap);
       w.rect(x, w.y, cardWidth, height, KEY_BACKGROUND, RULE);
       let y = w.y + 6;
       for (const l of c.label) { w.text(l, x + 6, y + TYPE.small, TYPE.small, w.regular, MUTED); y += TYPE.small * LINE; }
-      for (const l of c.value) { w.text(l, x + 6, y + 13, 13, w.bold); y += 13 * 1.2; }
+      for (const l of c.value) { w.text(l, x + 6, y + c.size, c.size, w.bold); y += c.size * 1.2; }
       for (const l of c.note) { w.text(l, x + 6, y + TYPE.small, TYPE.small, w.regular, MUTED); y += TYPE.small * LINE; }
     });
     w.y += height + gap;
@@ -399,9 +401,11 @@ function drawList(w: Writer, items: string[], numbered: boolean): void {
 }
 
 function drawSection(w: Writer, section: Section): void {
-  // A heading keeps at least a few lines of its section with it.
+  // A heading keeps the start of its first block with it: a table's caption, header and first rows, most of a chart, or a few lines.
   w.y += 8;
-  w.ensure(TYPE.h2 * LINE + 48);
+  const first = section.blocks[0];
+  const keep = first?.kind === "table" ? 84 : first?.kind === "chart" ? 170 : 48;
+  w.ensure(TYPE.h2 * LINE + 7 + keep);
   w.text(w.bold.metrics.sanitize(section.title), w.left, w.y + TYPE.h2, TYPE.h2, w.bold, ACCENT);
   w.y += TYPE.h2 * LINE + 1;
   w.rule(w.left, w.left + w.contentWidth, w.y, 0.6);
