@@ -43,9 +43,9 @@ describe.each(catalog.map((d) => [d.id, d] as const))("%s", (_id, design) => {
     expect(shown.length).toBeGreaterThan(0);
     const missing = shown.filter((s) => !seen.has(s.text));
     expect(missing, "numbers of the document absent from the PDF text").toEqual([]);
-    // The headline numbers are the stored record's, not recomputed by the report.
+    // The headline numbers are the stored record's, not recomputed by the report (a proportion may be shown as a percentage).
     const keyNumbers = doc.keyFacts.flatMap((f) => (typeof f.value === "number" ? [{ label: f.label, text: formatCell(f.value, f.digits), digits: f.digits }] : []));
-    const unmatched = keyNumbers.filter((k) => !recordNumbers.some((x) => formatCell(x, k.digits) === k.text));
+    const unmatched = keyNumbers.filter((k) => !recordNumbers.some((x) => formatCell(x, k.digits) === k.text || formatCell(x * 100, k.digits) === k.text));
     expect(unmatched, "key facts whose value is not a number of the JSON record").toEqual([]);
     expect(text).toContain(doc.record.id);
     expect(text.replace(/\s+/g, "")).toContain(doc.record.digest);
