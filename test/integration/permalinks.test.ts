@@ -158,6 +158,15 @@ describe("one calculation in every format", async () => {
     expect(id.status).toBe(404);
   });
 
+  it("draws a PDF for a label with emoji, right-to-left and CJK text inside the Worker", async () => {
+    const record = await freeze(design.id, design.example, "TW-417 😀👩‍🔬 שלום עולם مرحبا 試験 Étude α");
+    const res = await get(`/c/${record.id}.pdf`);
+    expect(res.status).toBe(200);
+    const loaded = await PDFDocument.load(await res.arrayBuffer());
+    expect(loaded.getPageCount()).toBeGreaterThan(0);
+    expect(loaded.getTitle()).toContain("TW-417");
+  });
+
   it("shows a label carrying markup as text in the page", async () => {
     const record = await freeze(design.id, design.example, `<script>alert("x")</script><img src=x onerror=alert(1)>`);
     const page = await (await get(`/c/${record.id}`)).text();
