@@ -4,6 +4,7 @@
 import { describe, expect, it } from "vitest";
 import { expectClose, loadFixture } from "../../support/fixtures.js";
 import { groupSequential } from "../../../src/designs/groupSequential.js";
+import { createRandom } from "../../../src/stats/random.js";
 
 const parse = (inputs: Record<string, unknown>) => groupSequential.input.safeParse(inputs);
 const pathsOf = (inputs: Record<string, unknown>): string[] => {
@@ -89,5 +90,38 @@ describe("group-sequential plan", () => {
     const protocol = sections.find((s) => s.id === "protocol")!.blocks[0] as { text: string };
     expect(protocol.text).toMatch(/non-binding/);
     expect(JSON.stringify(groupSequential.compute(input))).not.toMatch(/null,null|NaN|Infinity/);
+  });
+  it("expected information and exit probabilities agree with simulated Brownian motion (seeded Monte Carlo, within 4 standard errors)", () => {
+    // Z_k = W(t_k)/√t_k, increments N(η Δt, Δt) (Jennison & Turnbull 2000, section 3.1);
+    // each path stops at the first boundary crossed, futility included.
+    const input = groupSequential.input.parse({ ...groupSequential.example, sides: 2, alpha: 0.05 });
+    const p = groupSequential.compute(input).planned;
+    for (const [drift, expected, label] of [[0, p.expectedInformationNull, "null"], [p.drift, p.expectedInformationAlternative, "alternative"]] as const) {
+      const rng = createRandom(label === "null" ? 11 : 12);
+      const paths = 100_000;
+      let sum = 0;
+      let sumSq = 0;
+      let rejected = 0;
+      for (let i = 0; i < paths; i++) {
+        let w = 0;
+        let s = 0;
+        let stop = 1;
+        for (const look of p.looks) {
+          const t = look.informationFraction;
+          w += drift * (t - s) + Math.sqrt(t - s) * rng.normal();
+          s = t;
+          const z = w / Math.sqrt(t);
+          if (Math.abs(z) >= look.efficacyZ) { rejected++; stop = t; break; }
+          if (look.futilityZ !== null && z < look.futilityZ) { stop = t; break; }
+        }
+        sum += stop;
+        sumSq += stop * stop;
+      }
+      const mean = sum / paths;
+      const se = Math.sqrt((sumSq / paths - mean * mean) / paths);
+      expectClose(mean * p.inflationFactor, expected, 4 * se * p.inflationFactor, { hypothesis: label });
+      const rejection = label === "null" ? p.typeIErrorWithFutilityStops : p.power;
+      expectClose(rejected / paths, rejection, 4 * Math.sqrt((rejection * (1 - rejection)) / paths), { hypothesis: label, quantity: "rejection" });
+    }
   });
 });
