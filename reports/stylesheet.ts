@@ -63,7 +63,7 @@ footer.report-foot{margin-top:2rem;font-size:.8rem;color:${MUTED};border-top:1px
   th,td{padding:.25rem .4rem}
   .chart-wide{display:none}
   .chart-narrow{display:block}
-  table.stack,table.stack tbody,table.stack tr,table.stack th,table.stack td{display:block;width:100%}
+  table.stack,table.stack caption,table.stack tbody,table.stack tr,table.stack th,table.stack td{display:block;width:100%}
   table.stack thead{position:absolute;width:1px;height:1px;overflow:hidden;clip-path:inset(50%)}
   table.stack tr{border-bottom:1px solid ${RULE};padding:.35rem 0}
   table.stack th,table.stack td{border:0;padding:.1rem .3rem;text-align:left;white-space:normal;overflow-wrap:anywhere}
