@@ -122,7 +122,10 @@ function protocolText(input: GroupSequentialInput, p: GroupSequentialPlan): stri
   const futility = p.looks.some((l) => l.futilityZ !== null)
     ? ` The trial may stop for futility when Z falls below ${p.looks.map((l) => (l.futilityZ === null ? "—" : l.futilityZ.toFixed(3))).join(", ")} at the successive looks; these futility boundaries come from beta spending (${boundaryMethodText({ ...spec, efficacyBoundary: spec.futilityBoundary === "none" ? "pocock-type" : spec.futilityBoundary, efficacyGamma: spec.futilityGamma }, "beta")}) and are non-binding: the efficacy boundaries were computed ignoring them, so the type I error stays at most ${input.alpha} whether or not the trial stops at a futility boundary.`
     : "";
-  return `The trial has ${p.looks.length} analyses, ${p.looks.length - 1} interim and one final, at ${fractions} of the maximum information. ` +
+  const analyses = p.looks.length === 1
+    ? "The trial has a single final analysis at the maximum information. "
+    : `The trial has ${p.looks.length} analyses, ${p.looks.length - 1} interim and one final, at ${fractions} of the maximum information. `;
+  return analyses +
     `${input.sides === 2 ? "A two-sided" : "A one-sided"} test at overall level α = ${input.alpha} is kept by ${boundaryMethodText(spec, "alpha")}; ` +
     `the efficacy boundaries on the Z scale are ${bounds}${input.sides === 2 ? " in absolute value" : ""} (nominal ${input.sides === 2 ? "two-sided" : "one-sided"} p-values ${p.looks.map((l) => l.efficacyNominalP.toPrecision(3)).join(", ")}).${futility} ` +
     `To keep ${pct(input.power, 0)} power the maximum information is ${p.inflationFactor.toFixed(4)} times that of a single-analysis design; the expected information is ${p.expectedInformationNull.toFixed(3)} times the single-analysis information if there is no effect and ${p.expectedInformationAlternative.toFixed(3)} times it under the alternative. ` +
