@@ -74,6 +74,21 @@ try {
     await page.close();
     console.log(`${design.id.padEnd(28)} PDF ${String(pdf.length).padStart(7)} bytes in ${pdfMs.toFixed(0)} ms, ${external} external requests → ${dir}`);
   }
+  // A label made of script payloads, opened with JavaScript enabled: nothing may run.
+  const design = catalog[0]!;
+  const inputs = JSON.parse(canonicalJson(design.input.parse(design.example))) as unknown;
+  const payload = `<script>alert(1)</script><img src=x onerror=alert(2)><svg onload=alert(3)>`;
+  const record = await sealRecord({
+    id: await calculationId(design.id, design.version, inputs, payload), design: design.id, designVersion: design.version, engine: ENGINE,
+    inputs, label: payload, result: JSON.parse(canonicalJson(design.compute(inputs))) as unknown, createdAt: "2026-12-01T09:00:00.000Z",
+  });
+  const page = await browser.newPage();
+  let dialogs = 0;
+  page.on("dialog", (dialog) => { dialogs++; void dialog.dismiss(); });
+  await page.setContent(renderHtml(buildReport(design, record, ORIGIN)), { waitUntil: "load" });
+  const heading = await page.textContent("h1");
+  console.log(`markup label: ${dialogs} scripts ran; the heading reads ${JSON.stringify(heading)}`);
+  await page.close();
 } finally {
   await browser.close();
 }
