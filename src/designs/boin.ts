@@ -41,8 +41,8 @@ import {
   simulationFields, treatCohort, type TrialEnd,
 } from "./shared/doseFinding.js";
 
-/** Trials × scenarios × decisions × doses one request may simulate (about 2 s on one core). */
-export const BOIN_WORK_LIMIT = 60_000_000;
+/** Trials × scenarios × decisions × doses one request may simulate (a few seconds on one core). */
+export const BOIN_WORK_LIMIT = 30_000_000;
 
 const schema = z
   .strictObject({

@@ -41,7 +41,7 @@ import { type CrmModel, calibrateSkeleton, doseConstants, doseProbability, logis
 import { CrmFastPosterior, type CrmPosteriorSummary, crmPosterior } from "./shared/crmPosterior.js";
 
 /** Trials × scenarios × decisions × doses one request may simulate (a few seconds on one core). */
-export const CRM_WORK_LIMIT = 3_000_000;
+export const CRM_WORK_LIMIT = 2_000_000;
 
 const schema = z
   .strictObject({
