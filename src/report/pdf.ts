@@ -272,9 +272,10 @@ function prepareTable(w: Writer, table: Table): PreparedTable {
   const heads = table.columns.map((c) => w.bold.metrics.sanitize(headerText(c)));
   const available = w.contentWidth;
   const longestWord = (face: Face, text: string, s: number): number => Math.max(0, ...text.split(" ").map((word) => face.metrics.width(word, s)));
-  const measure = (s: number): { natural: number[]; minimum: number[] } => {
+  const measure = (s: number): { natural: number[]; minimum: number[]; content: number[] } => {
     const natural: number[] = [];
     const minimum: number[] = [];
+    const content: number[] = [];
     table.columns.forEach((_, i) => {
       const cellNatural = Math.max(0, ...cells.map((r) => w.regular.metrics.width(r[i]!, s)));
       const cellWord = numeric[i] ? cellNatural : Math.max(0, ...cells.map((r) => longestWord(w.regular, r[i]!, s)));
@@ -282,8 +283,9 @@ function prepareTable(w: Writer, table: Table): PreparedTable {
       const headWord = longestWord(w.bold, heads[i]!, s);
       natural.push(Math.max(cellNatural, headNatural) + 2 * CELL_PAD_X);
       minimum.push(Math.min(Math.max(cellWord, headWord) + 2 * CELL_PAD_X, available * 0.4));
+      content.push(cellNatural + 2 * CELL_PAD_X);
     });
-    return { natural, minimum };
+    return { natural, minimum, content };
   };
   let size: number = TYPE.table;
   let m = measure(size);
@@ -297,10 +299,19 @@ function prepareTable(w: Writer, table: Table): PreparedTable {
   if (naturalTotal <= available) {
     widths = naturalTotal > available * 0.55 ? m.natural.map((v) => v * (available / naturalTotal)) : m.natural;
   } else {
-    const spare = available - sum(m.minimum);
-    const want = m.natural.map((v, i) => v - m.minimum[i]!);
-    const wantTotal = sum(want);
-    widths = m.minimum.map((v, i) => (spare > 0 && wantTotal > 0 ? v + (want[i]! / wantTotal) * spare : v * (available / sum(m.minimum))));
+    // Unwrapping cells comes before unwrapping headers: a header may take two lines, a row should not.
+    let spare = available - sum(m.minimum);
+    widths = [...m.minimum];
+    if (spare <= 0) widths = widths.map((v) => v * (available / sum(m.minimum)));
+    for (const target of [m.content, m.natural]) {
+      if (spare <= 0) break;
+      const want = widths.map((v, i) => Math.max(0, Math.max(target[i]!, v) - v));
+      const total = sum(want);
+      if (total <= 0) continue;
+      const share = Math.min(1, spare / total);
+      widths = widths.map((v, i) => v + want[i]! * share);
+      spare -= total * share;
+    }
   }
   const wrapCell = (text: string, i: number, face: Face): string[] => wrapText(face.metrics, text, size, widths[i]! - 2 * CELL_PAD_X);
   return {
