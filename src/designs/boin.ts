@@ -252,6 +252,7 @@ export function computeBoin(input: BoinInput): BoinResult {
 }
 
 const f3 = (x: number): string => x.toFixed(3);
+const lowerFirst = (text: string): string => text.charAt(0).toLowerCase() + text.slice(1);
 const pct = (x: number): string => `${(x * 100).toFixed(1)}%`;
 
 function actionText(r: BoinNextDose, doses: string[]): string {
@@ -356,6 +357,8 @@ function protocolText(input: BoinInput, r: BoinResult): string {
     text += ` In ${input.trials} simulated trials per scenario (seed ${input.seed}), ` + ocs.map((oc) =>
       `under the scenario "${oc.scenario}" (true MTD ${input.doses[oc.trueMtd]}) the design selects ${selectionText(input.doses, oc)}, treating on average ${oc.meanTotalPatients.toFixed(1)} patients, ${pct(oc.treatedAboveMtd)} of them above the true MTD`).join("; ") + ".";
   }
+  const nd = r.nextDose;
+  if (nd) text += ` With the data so far (${nd.totalPatients} patients; ${input.data![nd.currentDose]!.dlts} of ${input.data![nd.currentDose]!.patients} with a DLT at ${input.doses[nd.currentDose]}), the decision is: ${lowerFirst(actionText(nd, input.doses))}.`;
   return text;
 }
 

@@ -323,6 +323,12 @@ function protocolText(input: CrmInput, r: CrmResult): string {
     text += ` In ${input.trials} simulated trials per scenario (seed ${input.seed}), ` + ocs.map((oc) =>
       `under the scenario "${oc.scenario}" (true MTD ${doses[oc.trueMtd]}) the design selects ${selectionText(doses, oc)}, treating on average ${oc.meanTotalPatients.toFixed(1)} patients, ${(oc.treatedAboveMtd * 100).toFixed(1)}% of them above the true MTD`).join("; ") + ".";
   }
+  const nd = r.nextDose;
+  if (nd) {
+    text += nd.stoppedForSafety
+      ? ` With the data so far (${nd.totalPatients} patients), the posterior probability that the DLT rate at ${doses[0]} exceeds ${input.target} is ${f3(nd.probabilityLowestAboveTarget)}, above ${input.safetyThreshold}: the trial stops for safety.`
+      : ` With the data so far (${nd.totalPatients} patients), the ${nd.maximumReached ? "selected MTD" : "recommended dose for the next cohort"} is ${doses[nd.recommendedDose]}, with posterior mean DLT probability ${f3(nd.meanProbability[nd.recommendedDose]!)} (90% credible interval ${f3(nd.credibleLower[nd.recommendedDose]!)} to ${f3(nd.credibleUpper[nd.recommendedDose]!)}).`;
+  }
   return text;
 }
 
