@@ -11,7 +11,7 @@
  */
 import fontkit from "@pdf-lib/fontkit";
 import type { Font, Glyph } from "@pdf-lib/fontkit";
-import { LineCapStyle, PDFDocument, type PDFFont, type PDFPage, type RGB, degrees, rgb } from "pdf-lib";
+import { LineCapStyle, PDFDocument, type PDFFont, type PDFPage, PDFString, type RGB, degrees, rgb } from "pdf-lib";
 import {
   ACCENT, INK, KEY_BACKGROUND, LONG_KEY_VALUE, MUTED, PAGE_MARGIN, PAPER, PROTOCOL_BACKGROUND, RULE, type Paper, TYPE,
 } from "../../reports/theme.js";
@@ -243,6 +243,10 @@ function drawFacts(w: Writer, facts: Fact[]): void {
     w.ensure(height);
     label.forEach((l, i) => w.text(l, w.left, w.y + size + i * size * LINE, size, w.bold));
     value.forEach((l, i) => w.text(l, w.left + labelWidth + 10, w.y + size + i * size * LINE, size, w.regular));
+    if (typeof f.value === "string" && /^https?:\/\/\S+$/.test(f.value)) {
+      const x = w.left + labelWidth + 10;
+      linkArea(w.pdf, w.page, [x, w.height - w.y - value.length * size * LINE, x + valueWidth, w.height - w.y], f.value);
+    }
     w.y += height;
     w.rule(w.left, w.left + w.contentWidth, w.y - 1.5, 0.3);
   }
@@ -467,6 +471,15 @@ function truncateToWidth(face: Face, text: string, size: number, width: number):
   return `${chars.join("")}…`;
 }
 
+/** A clickable area opening a URI (ISO 32000-1 §12.5.6.5 link annotation, §12.6.4.7 URI action). */
+function linkArea(pdf: PDFDocument, page: PDFPage, rect: [number, number, number, number], uri: string): void {
+  const annotation = pdf.context.obj({
+    Type: "Annot", Subtype: "Link", Rect: rect, Border: [0, 0, 0],
+    A: { Type: "Action", S: "URI", URI: PDFString.of(uri) },
+  });
+  page.node.addAnnot(pdf.context.register(annotation));
+}
+
 function drawFrame(w: Writer, doc: ReportDocument): void {
   const total = w.pages.length;
   const right = w.left + w.contentWidth;
@@ -488,6 +501,7 @@ function drawFrame(w: Writer, doc: ReportDocument): void {
     const pageWidth = w.regular.metrics.width(pageText, TYPE.small);
     const footerSize = Math.min(6.5, 6.5 * (w.contentWidth - pageWidth - 12) / w.regular.metrics.width(footer, 6.5));
     w.text(footer, w.left, footerBaseline, footerSize, w.regular, MUTED);
+    linkArea(w.pdf, page, [w.left, w.height - footerBaseline - 2, w.left + w.regular.metrics.width(footer, footerSize), w.height - footerBaseline + footerSize], doc.permalink);
     w.text(pageText, right, footerBaseline, TYPE.small, w.regular, MUTED, "end");
   });
 }

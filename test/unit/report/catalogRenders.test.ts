@@ -8,6 +8,7 @@ import { type Cell, formatCell } from "../../../src/report/document.js";
 import { renderHtml } from "../../../src/report/html.js";
 import { renderPdf } from "../../../src/report/pdf.js";
 import { escapeMarkup } from "../../../src/report/escape.js";
+import { renderChartSvg } from "../../../src/report/svg.js";
 import { TEST_FONTS, exampleReport, pdfText } from "../../support/report.js";
 
 /** Every finite number anywhere in a JSON value. */
@@ -18,8 +19,45 @@ function numbersIn(value: unknown, out: number[] = []): number[] {
   return out;
 }
 
+/**
+ * Well-formed XML in the sense of XML 1.0 §2.1 for the subset an SVG drawing uses: tags nest, attribute values are
+ * quoted, and text holds no raw < or > and only the five predefined entities. The form pages parse the SVG as XML.
+ */
+function xmlProblems(xml: string): string[] {
+  const problems: string[] = [];
+  const badText = (text: string, where: number): void => {
+    if (/[<>]/.test(text) || /&(?!(?:amp|lt|gt|quot|#39);)/.test(text)) problems.push(`bad text at ${where}: ${text.slice(0, 40)}`);
+  };
+  const tag = /<(\/?)([A-Za-z][\w:-]*)((?:\s+[\w:-]+="[^"<>]*")*)\s*(\/?)>/g;
+  const stack: string[] = [];
+  let last = 0;
+  let roots = 0;
+  for (let m = tag.exec(xml); m; m = tag.exec(xml)) {
+    badText(xml.slice(last, m.index), last);
+    for (const value of m[3]!.matchAll(/="([^"]*)"/g)) badText(value[1]!, m.index);
+    if (m[1]) {
+      if (stack.pop() !== m[2]) problems.push(`unbalanced </${m[2]}> at ${m.index}`);
+    } else {
+      if (stack.length === 0) roots++;
+      if (!m[4]) stack.push(m[2]!);
+    }
+    last = tag.lastIndex;
+  }
+  badText(xml.slice(last), last);
+  if (stack.length > 0) problems.push(`unclosed ${stack.join(", ")}`);
+  if (roots !== 1) problems.push(`${roots} root elements`);
+  return problems;
+}
+
 /** pdftotext splits words at gaps; compare on single spaces. */
 const words = (text: string): Set<string> => new Set(text.split(/\s+/).map((w) => w.replace(/^[(\[]+|[),;:\]]+$/g, "")));
+
+it("the XML check catches what an XML parser refuses", () => {
+  expect(xmlProblems('<svg a="1"><text>ok &amp; fine</text></svg>')).toEqual([]);
+  for (const bad of ["<svg><text>a < b</text></svg>", "<svg><g></svg>", '<svg a="x & y"/>', "<svg/><svg/>", "<svg>&nbsp;</svg>"]) {
+    expect(xmlProblems(bad), bad).not.toEqual([]);
+  }
+});
 
 describe.each(catalog.map((d) => [d.id, d] as const))("%s", (_id, design) => {
   it("renders its example as a PDF whose numbers are the record's, as formatted", async () => {
@@ -59,5 +97,8 @@ describe.each(catalog.map((d) => [d.id, d] as const))("%s", (_id, design) => {
     expect(html).toContain(doc.record.digest);
     expect(html).toContain(escapeMarkup(doc.question));
     expect(html).toContain('<th scope="col"');
+    for (const block of doc.sections.flatMap((sec) => sec.blocks)) {
+      if (block.kind === "chart") expect(xmlProblems(renderChartSvg(block.chart)), block.chart.id).toEqual([]);
+    }
   });
 });

@@ -1,13 +1,15 @@
 // The small formats: CSV (RFC 4180), the SVG chart drawing and its layout,
 // BibTeX and RIS entries, and number formatting shared by all renderers.
+import { PDFDict, PDFDocument, PDFName, PDFString } from "pdf-lib";
 import { describe, expect, it } from "vitest";
 import { layoutChart } from "../../../src/report/chartLayout.js";
 import { accessDate, toBibtex, toRis } from "../../../src/report/citation.js";
 import { tableCsv } from "../../../src/report/csv.js";
 import type { Chart } from "../../../src/report/document.js";
+import { renderPdf } from "../../../src/report/pdf.js";
 import { renderChartSvg } from "../../../src/report/svg.js";
 import { twoMeans } from "../../../src/designs/twoMeans.js";
-import { exampleReport } from "../../support/report.js";
+import { TEST_FONTS, exampleReport } from "../../support/report.js";
 
 describe("CSV", () => {
   it("quotes fields with commas, quotes and line breaks, CRLF between records (RFC 4180 §2)", () => {
@@ -87,5 +89,21 @@ describe("citation entries", () => {
     const ris = toRis(doc, accessed);
     expect(ris).toContain("Y2  - 2027/01/01\r\n");
     expect(ris).toContain(`ID  - ${doc.record.id}\r\n`);
+  });
+});
+
+describe("PDF links", () => {
+  it("makes the permalink clickable in every page's footer (URI actions, ISO 32000-1 §12.6.4.7)", async () => {
+    const doc = await exampleReport(twoMeans, "TW-417 links");
+    const pdf = await PDFDocument.load(await renderPdf(doc, TEST_FONTS));
+    for (const page of pdf.getPages()) {
+      const annots = page.node.Annots();
+      expect(annots?.size()).toBeGreaterThan(0);
+      const uris = Array.from({ length: annots!.size() }, (_, i) => {
+        const action = (pdf.context.lookup(annots!.get(i)) as PDFDict).lookup(PDFName.of("A"), PDFDict);
+        return action.lookup(PDFName.of("URI"), PDFString).decodeText();
+      });
+      expect(uris).toContain(doc.permalink);
+    }
   });
 });
