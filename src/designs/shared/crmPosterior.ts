@@ -298,9 +298,10 @@ export class CrmFastPosterior {
             logP = eta - softPlus;
             log1mP = -softPlus;
           }
-          g.logP[i * count + node] = logP;
-          g.log1mP[i * count + node] = log1mP;
-          g.p[i * count + node] = Math.exp(logP);
+          // Node-major, so that one node's doses sit together in memory.
+          g.logP[node * k + i] = logP;
+          g.log1mP[node * k + i] = log1mP;
+          g.p[node * k + i] = Math.exp(logP);
         }
       }
     }
@@ -321,7 +322,6 @@ export class CrmFastPosterior {
     while (levelIndex + 1 < LEVELS && FINEST_PANEL * 2 ** (levelIndex + 1) <= Math.min(scale, 0.8)) levelIndex++;
     const g = this.level(levelIndex);
     const m = FAST_NODES_PER_PANEL;
-    const count = g.panels * m;
     const firstPanel = Math.max(0, Math.floor((lo + GRID_LIMIT) / g.width));
     const lastPanel = Math.min(g.panels - 1, Math.floor((hi + GRID_LIMIT) / g.width));
     const k = this.doseCount;
@@ -330,7 +330,7 @@ export class CrmFastPosterior {
     for (let i = 0; i < k; i++) {
       const n = patients[i]!;
       if (n > 0) {
-        this.offsets[tried] = i * count;
+        this.offsets[tried] = i;
         this.dlts[tried] = dlts[i]!;
         this.patients[tried] = n - dlts[i]!;
         tried++;
@@ -349,16 +349,20 @@ export class CrmFastPosterior {
     const safety = this.safetyParameter;
     const safetyPanel = Math.floor((safety + GRID_LIMIT) / g.width);
     const safetyNode = safetyPanel * m;
+    const p = g.p;
     for (let node = firstPanel * m; node < (lastPanel + 1) * m; node++) {
-      let l = g.logPrior[node]!;
+      const base = node * k;
+      let l = g.logPrior[node]! - peak;
       for (let j = 0; j < tried; j++) {
-        const at = offsets[j]! + node;
+        const at = base + offsets[j]!;
         l += events[j]! * logP[at]! + nonEvents[j]! * log1mP[at]!;
       }
-      const w = g.weight[node]! * Math.exp(l - peak);
+      // Below e^-40 of the peak a node adds nothing a double can hold next to the total.
+      if (l < -40) continue;
+      const w = g.weight[node]! * Math.exp(l);
       total += w;
       first += w * g.a[node]!;
-      for (let i = 0; i < k; i++) means[i]! += w * g.p[i * count + node]!;
+      for (let i = 0; i < k; i++) means[i]! += w * p[base + i]!;
       if (node < safetyNode) lower += w;
     }
     for (let i = 0; i < k; i++) means[i]! /= total;
