@@ -72,6 +72,20 @@ export async function startWorker(root: string): Promise<RunningWorker> {
     }
     rmSync(state, { recursive: true, force: true });
   };
+  // If the test runner is killed before its teardown, the detached server must not outlive it.
+  const killGroup = (): void => {
+    if (child.exitCode === null && child.pid) {
+      try { process.kill(-child.pid, "SIGKILL"); } catch { /* gone */ }
+    }
+  };
+  process.once("exit", killGroup);
+  for (const signal of ["SIGINT", "SIGTERM", "SIGHUP"] as const) {
+    process.once(signal, () => {
+      killGroup();
+      // Let the signal do what it would have done: re-raise it unless the runner handles it itself.
+      if (process.listenerCount(signal) === 0) process.kill(process.pid, signal);
+    });
+  }
   try {
     await waitUntilServing(url, child, () => output, 60000);
   } catch (error) {
