@@ -302,7 +302,7 @@ function nextDoseSection(input: CrmInput, nd: CrmNextDose): Section {
           yDomain: [0, 1],
           categories: doses,
           series: [
-            { name: "Posterior mean", style: "points", points: nd.meanProbability.map((p, i): [number, number] => [i, p]) },
+            { name: "Posterior mean", style: "bars", points: nd.meanProbability.map((p, i): [number, number] => [i, p]) },
             { name: "90% lower limit", style: "points", points: nd.credibleLower.map((p, i): [number, number] => [i, p]) },
             { name: "90% upper limit", style: "points", points: nd.credibleUpper.map((p, i): [number, number] => [i, p]) },
           ],
