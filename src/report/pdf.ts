@@ -11,7 +11,7 @@
  */
 import fontkit from "@pdf-lib/fontkit";
 import type { Font, Glyph } from "@pdf-lib/fontkit";
-import { LineCapStyle, PDFDocument, type PDFFont, type PDFPage, PDFString, type RGB, degrees, rgb } from "pdf-lib";
+import { LineCapStyle, PDFDocument, type PDFFont, PDFHexString, PDFName, type PDFPage, PDFString, type RGB, degrees, rgb } from "pdf-lib";
 import {
   ACCENT, INK, KEY_BACKGROUND, LONG_KEY_VALUE, MUTED, PAGE_MARGIN, PAPER, PROTOCOL_BACKGROUND, RULE, type Paper, TYPE,
 } from "../../reports/theme.js";
@@ -75,6 +75,8 @@ const CELL_PAD_Y = 2.6;
 
 class Writer {
   readonly pages: PDFPage[] = [];
+  /** Where each section starts, for the document outline. */
+  readonly headings: Array<{ title: string; page: PDFPage; top: number }> = [];
   page!: PDFPage;
   /** Distance from the top edge of the page, in points. */
   y = 0;
@@ -421,6 +423,7 @@ function drawSection(w: Writer, section: Section): void {
   const first = section.blocks[0];
   const keep = first?.kind === "table" ? 84 : first?.kind === "chart" ? 170 : 48;
   w.ensure(TYPE.h2 * LINE + 7 + keep);
+  w.headings.push({ title: section.title, page: w.page, top: w.y });
   w.text(w.bold.metrics.sanitize(section.title), w.left, w.y + TYPE.h2, TYPE.h2, w.bold, ACCENT);
   w.y += TYPE.h2 * LINE + 1;
   w.rule(w.left, w.left + w.contentWidth, w.y, 0.6);
@@ -469,6 +472,27 @@ function truncateToWidth(face: Face, text: string, size: number, width: number):
   const chars = [...text];
   while (chars.length > 1 && face.metrics.width(`${chars.join("")}…`, size) > width) chars.pop();
   return `${chars.join("")}…`;
+}
+
+/** The document outline (bookmarks): one entry per section, opening at its heading (ISO 32000-1 §12.3.3). */
+function addOutline(w: Writer): void {
+  if (w.headings.length === 0) return;
+  const context = w.pdf.context;
+  const outlineRef = context.nextRef();
+  const refs = w.headings.map(() => context.nextRef());
+  w.headings.forEach((h, i) => {
+    const item = context.obj({
+      Title: PDFHexString.fromText(h.title),
+      Parent: outlineRef,
+      Dest: [h.page.ref, "XYZ", w.left, w.height - h.top + 4, null],
+    });
+    if (i > 0) item.set(PDFName.of("Prev"), refs[i - 1]!);
+    if (i < refs.length - 1) item.set(PDFName.of("Next"), refs[i + 1]!);
+    context.assign(refs[i]!, item);
+  });
+  context.assign(outlineRef, context.obj({ Type: "Outlines", First: refs[0]!, Last: refs[refs.length - 1]!, Count: refs.length }));
+  w.pdf.catalog.set(PDFName.of("Outlines"), outlineRef);
+  w.pdf.catalog.set(PDFName.of("PageMode"), PDFName.of("UseOutlines"));
 }
 
 /** A clickable area opening a URI (ISO 32000-1 §12.5.6.5 link annotation, §12.6.4.7 URI action). */
@@ -534,6 +558,7 @@ export async function renderPdf(doc: ReportDocument, fonts: ReportFonts, options
   drawTitle(w, doc);
   for (const section of doc.sections) drawSection(w, section);
   drawFrame(w, doc);
+  addOutline(w);
   return pdf.save({ useObjectStreams: true });
 }
 

@@ -1,6 +1,6 @@
 // The small formats: CSV (RFC 4180), the SVG chart drawing and its layout,
 // BibTeX and RIS entries, and number formatting shared by all renderers.
-import { PDFDict, PDFDocument, PDFName, PDFString } from "pdf-lib";
+import { PDFArray, PDFDict, PDFDocument, PDFHexString, PDFName, PDFRef, PDFString } from "pdf-lib";
 import { describe, expect, it } from "vitest";
 import { layoutChart } from "../../../src/report/chartLayout.js";
 import { accessDate, toBibtex, toRis } from "../../../src/report/citation.js";
@@ -105,5 +105,23 @@ describe("PDF links", () => {
       });
       expect(uris).toContain(doc.permalink);
     }
+  });
+});
+
+describe("PDF outline", () => {
+  it("has one bookmark per section, in order, each opening on a page of the document (ISO 32000-1 §12.3.3)", async () => {
+    const doc = await exampleReport(twoMeans, "TW-417 outline");
+    const pdf = await PDFDocument.load(await renderPdf(doc, TEST_FONTS));
+    const outlines = pdf.catalog.lookup(PDFName.of("Outlines"), PDFDict);
+    const pageRefs = pdf.getPages().map((p) => p.ref.toString());
+    const titles: string[] = [];
+    let item = outlines.lookup(PDFName.of("First"), PDFDict) as PDFDict | undefined;
+    while (item) {
+      titles.push(item.lookup(PDFName.of("Title"), PDFHexString).decodeText());
+      const dest = item.lookup(PDFName.of("Dest"), PDFArray);
+      expect(pageRefs).toContain((dest.get(0) as PDFRef).toString());
+      item = item.lookup(PDFName.of("Next")) as PDFDict | undefined;
+    }
+    expect(titles).toEqual(doc.sections.map((s) => s.title));
   });
 });
