@@ -69,6 +69,9 @@ const schema = z
       if (v.hypothesis === "non-inferiority" && v.margin !== undefined && v.delta <= -v.margin) issue("delta", "The expected difference is already beyond the non-inferiority margin; no sample size can show non-inferiority.");
       if (v.hypothesis === "equivalence" && v.margin !== undefined && Math.abs(v.delta) >= v.margin) issue("delta", "The expected difference must lie inside the equivalence margin.");
     }
+    const scale = (x: number | undefined): number => (x === undefined ? 0 : Math.abs(x) / v.sd);
+    if (scale(v.delta) > 100) issue("delta", "The difference is more than 100 standard deviations; check that the difference and the standard deviation are in the same units.");
+    if (scale(v.margin) > 100) issue("margin", "The margin is more than 100 standard deviations; check that the margin and the standard deviation are in the same units.");
     if (v.power <= v.alpha) issue("power", "Power must exceed alpha: a test that rejects no more often than chance is not a test.");
     if (v.interimLooks !== undefined) {
       if (v.solveFor !== "sample-size") issue("interimLooks", "Interim looks are planned with the sample size: set solveFor to sample-size, or leave interimLooks out.");
