@@ -55,8 +55,9 @@ function reportFor(c: Context, record: CalculationRecord): ReportDocument {
 }
 
 /** The PDF from the rendering cache, or drawn now and kept; the report is only built on a miss. */
-async function pdfBytes(store: RecordStore, id: string, report: () => ReportDocument, paper: "a4" | "letter"): Promise<{ bytes: ArrayBuffer | Uint8Array; cached: boolean }> {
-  const key = `pdf-v${PDF_RENDERING_VERSION}-${paper}`;
+async function pdfBytes(store: RecordStore, id: string, host: string, report: () => ReportDocument, paper: "a4" | "letter"): Promise<{ bytes: ArrayBuffer | Uint8Array; cached: boolean }> {
+  // The PDF prints its permalink, so a copy drawn for one host name is not served under another.
+  const key = `pdf-v${PDF_RENDERING_VERSION}-${paper}-${host}`;
   const hit = await store.getRendering(id, key);
   if (hit) return { bytes: hit, cached: true };
   const bytes = await renderPdf(report(), REPORT_FONTS, { paper });
@@ -103,7 +104,7 @@ export const permalinkRouter = new Hono<{ Bindings: Env }>().get("/:name", async
       c.header("Content-Security-Policy", HTML_POLICY);
       return c.html(renderHtml(report()));
     case "pdf": {
-      const { bytes, cached } = await pdfBytes(store, id, report, paperParam === "letter" ? "letter" : "a4");
+      const { bytes, cached } = await pdfBytes(store, id, new URL(c.req.url).host, report, paperParam === "letter" ? "letter" : "a4");
       c.header(RENDERING_HEADER, cached ? "cached" : "rendered");
       c.header("Content-Type", "application/pdf");
       c.header("Content-Disposition", attachment(`${id}.pdf`, true));

@@ -90,7 +90,7 @@ describe("one calculation in every format", async () => {
     const first = await get(`/c/${record.id}.pdf`);
     expect(first.headers.get("x-trialwright-rendering")).toBe("rendered");
     const firstBytes = new Uint8Array(await first.arrayBuffer());
-    const stored = await env.CALCULATIONS.get(`render:pdf-v1-a4:${record.id}`, "arrayBuffer");
+    const stored = await env.CALCULATIONS.get(`render:pdf-v1-a4-example.com:${record.id}`, "arrayBuffer");
     expect(stored).not.toBeNull();
     expect(new Uint8Array(stored!)).toEqual(firstBytes);
 
@@ -100,7 +100,7 @@ describe("one calculation in every format", async () => {
 
     // Replacing the cached bytes shows the answer really comes from KV.
     const marker = new TextEncoder().encode("%PDF-1.7 cached marker");
-    await env.CALCULATIONS.put(`render:pdf-v1-a4:${record.id}`, marker);
+    await env.CALCULATIONS.put(`render:pdf-v1-a4-example.com:${record.id}`, marker);
     const third = await get(`/c/${record.id}.pdf`);
     expect(new Uint8Array(await third.arrayBuffer())).toEqual(marker);
   });
