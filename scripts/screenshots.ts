@@ -1,8 +1,9 @@
 /**
  * `npm run screenshots`: every page at desktop and phone width, written to
  * out/screenshots/ (git-ignored). The Worker runs under `wrangler dev` with a
- * throwaway store; each design page is shot with its example computed, and
- * once more after freezing.
+ * throwaway store; each design page is shot with its example computed, once
+ * more after freezing, and its report; then a field error, an infeasible
+ * design and an unknown design.
  */
 import { mkdirSync } from "node:fs";
 import { resolve } from "node:path";
@@ -33,7 +34,8 @@ try {
     const context = await browser.newContext({ viewport: { width: viewport.width, height: viewport.height }, deviceScaleFactor: 1 });
     const page = await context.newPage();
     page.on("pageerror", (e) => console.error(`page error: ${e.message}`));
-    page.on("console", (m) => { if (m.type() === "error") console.error(`console: ${m.text()}`); });
+    // The error, infeasible and unknown-design shots answer 400, 422 and 404 on purpose; anything else is worth a look.
+    page.on("console", (m) => { if (m.type() === "error" && !/status of (400|404|422)/.test(m.text())) console.error(`console: ${m.text()}`); });
     await page.goto(`${worker.url}/`);
     await page.waitForSelector(".design-card");
     await page.screenshot({ path: `${out}/start-${viewport.name}.png`, fullPage: true });
@@ -57,6 +59,13 @@ try {
     await page.press("#f-sd", "Enter");
     await page.waitForSelector("#err-sd:not([hidden])");
     await page.screenshot({ path: `${out}/design-two-means-error-${viewport.name}.png`, fullPage: true });
+    if (catalog.designs.some((d) => d.id === "simon-two-stage")) {
+      await page.goto(`${worker.url}/design?id=simon-two-stage`);
+      await page.waitForSelector("#preview-head .key-facts");
+      await page.fill("#f-maxN", "8");
+      await page.waitForSelector("#problem:not([hidden])", { timeout: 30000 });
+      await page.screenshot({ path: `${out}/design-simon-two-stage-infeasible-${viewport.name}.png` });
+    }
     await page.goto(`${worker.url}/design?id=no-such-design`);
     await page.waitForSelector("h1");
     await page.screenshot({ path: `${out}/design-unknown-${viewport.name}.png` });
