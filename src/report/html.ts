@@ -43,6 +43,8 @@ function renderTable(table: Table, csvHref: string | null): string {
 }
 
 function factValue(f: Fact): string {
+  // Only http(s) addresses become links, so no label can smuggle in another scheme.
+  if (typeof f.value === "string" && /^https?:\/\/[^\s"<>]+$/.test(f.value)) return `<a href="${escapeMarkup(f.value)}">${escapeMarkup(f.value)}</a>`;
   return `${escapeMarkup(formatCell(f.value, f.digits))}${f.unit ? ` ${escapeMarkup(f.unit)}` : ""}${f.note ? ` <small>(${escapeMarkup(f.note)})</small>` : ""}`;
 }
 
