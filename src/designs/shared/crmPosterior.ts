@@ -204,8 +204,9 @@ export function crmPosterior(model: CrmModel, patients: ArrayLike<number>, dlts:
 
 /** Grid of the fast rule: a from -GRID_LIMIT to GRID_LIMIT, panels of width FINEST_PANEL × 2^level. */
 const GRID_LIMIT = 24;
-const FINEST_PANEL = 0.1;
-const LEVELS = 4;
+/** From 0.0125 (posteriors of a thousand patients or a tight prior) to 0.8; each level is tabulated only when first needed. */
+const FINEST_PANEL = 0.0125;
+const LEVELS = 7;
 /** Gauss-Legendre nodes per panel of the fast rule. */
 export const FAST_NODES_PER_PANEL = 8;
 

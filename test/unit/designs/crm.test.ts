@@ -104,6 +104,24 @@ describe("CRM fast posterior of the simulations", () => {
   });
 });
 
+describe("CRM fast posterior with much data or a tight prior", () => {
+  it("agrees with the adaptive reference to 1e-9 with up to 1,500 patients over 8 doses", () => {
+    for (const [kind, priorVariance] of [["power", 0.05], ["logistic", 4], ["power", 9]] as const) {
+      const random = createRandom(21);
+      const model = { kind, skeleton: calibrateSkeleton(kind, 0.3, 0.06, 3, 8), intercept: 3, priorVariance };
+      const fast = new CrmFastPosterior(model, 0.3);
+      for (let t = 0; t < 40; t++) {
+        const n = Array.from({ length: 8 }, () => (random.uniform() < 0.7 ? random.integer(151) : 0));
+        const y = n.map((m, i) => Math.min(m, Math.round(m * model.skeleton[i]! * (0.5 + random.uniform()))));
+        const ref = crmPosterior(model, n, y, 0.3);
+        fast.update(n, y);
+        for (let i = 0; i < 8; i++) expectClose(fast.meanProbability[i]!, ref.meanProbability[i]!, 1e-9, { kind, priorVariance, n, y, dose: i + 1 });
+        expectClose(fast.probabilityLowestAboveTarget, ref.probabilityLowestAboveTarget, 1e-9, { kind, priorVariance, n, y, what: "P(p1 > target)" });
+      }
+    }
+  });
+});
+
 describe("CRM simulation", () => {
   it("agrees with exact enumeration of small trials computed in R (within 4.5 Monte Carlo standard errors)", () => {
     const f = loadFixture<{ name: string; model: CrmModelKind; skeleton: number[]; target: number; dltProbabilities: number[]; cohortSize: number; maxSampleSize: number;
