@@ -105,6 +105,15 @@ describe("one calculation in every format", async () => {
     expect(new Uint8Array(await third.arrayBuffer())).toEqual(marker);
   });
 
+  it("answers HEAD with the headers of GET and no body (RFC 9110 §9.3.2)", async () => {
+    const record = await freeze(design.id, design.example, label);
+    const head = await SELF.fetch(`${ORIGIN}/c/${record.id}.pdf`, { method: "HEAD" });
+    expect(head.status).toBe(200);
+    expect(head.headers.get("content-type")).toBe("application/pdf");
+    expectImmutable(head, record.digest);
+    expect((await head.arrayBuffer()).byteLength).toBe(0);
+  });
+
   it("draws Letter paper on request and refuses an unknown paper size", async () => {
     const record = await freeze(design.id, design.example, label);
     const letter = await get(`/c/${record.id}.pdf?paper=letter`);
