@@ -29,7 +29,21 @@ function isRightToLeft(cp: number): boolean {
 
 function isStrongLeftToRight(cp: number): boolean {
   return (cp >= 0x41 && cp <= 0x5a) || (cp >= 0x61 && cp <= 0x7a) || (cp >= 0xc0 && cp <= 0x24f && cp !== 0xd7 && cp !== 0xf7) ||
-    (cp >= 0x370 && cp <= 0x58f) || (cp >= 0x30 && cp <= 0x39);
+    (cp >= 0x370 && cp <= 0x58f);
+}
+
+/** Reverses a right-to-left run; numbers inside it (European digits, UAX #9 class EN) keep their left-to-right order. */
+function reverseRun(chars: string[]): string[] {
+  const tokens: string[] = [];
+  for (let i = 0; i < chars.length;) {
+    if (/[0-9]/.test(chars[i]!)) {
+      let j = i + 1;
+      while (j < chars.length && (/[0-9]/.test(chars[j]!) || (/[.,:]/.test(chars[j]!) && /[0-9]/.test(chars[j + 1] ?? "")))) j++;
+      tokens.push(chars.slice(i, j).join(""));
+      i = j;
+    } else tokens.push(chars[i++]!);
+  }
+  return tokens.reverse();
 }
 
 export class FontMetrics {
@@ -99,7 +113,7 @@ export function visualOrder(line: string): string {
       else if (isStrongLeftToRight(cp)) break;
       j++;
     }
-    out.push(...chars.slice(i, end + 1).reverse());
+    out.push(...reverseRun(chars.slice(i, end + 1)));
     i = end + 1;
   }
   return out.join("");

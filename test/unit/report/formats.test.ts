@@ -7,6 +7,7 @@ import { accessDate, toBibtex, toRis } from "../../../src/report/citation.js";
 import { tableCsv } from "../../../src/report/csv.js";
 import type { Chart } from "../../../src/report/document.js";
 import { renderPdf } from "../../../src/report/pdf.js";
+import { visualOrder } from "../../../src/report/pdfText.js";
 import { renderChartSvg } from "../../../src/report/svg.js";
 import { twoMeans } from "../../../src/designs/twoMeans.js";
 import { TEST_FONTS, exampleReport } from "../../support/report.js";
@@ -123,5 +124,14 @@ describe("PDF outline", () => {
       item = item.lookup(PDFName.of("Next")) as PDFDict | undefined;
     }
     expect(titles).toEqual(doc.sections.map((s) => s.title));
+  });
+});
+
+describe("visual order of right-to-left text (UAX #9, simplified)", () => {
+  it("reverses a Hebrew run inside a left-to-right line, keeping numbers and the Latin text in order", () => {
+    // Visual order read left to right: Latin as typed, then the Hebrew words from last to first, each letter reversed.
+    expect(visualOrder("TW-417 שלב 2 מינון")).toBe("TW-417 ןונימ 2 בלש");
+    expect(visualOrder("dose 12.5 mg")).toBe("dose 12.5 mg");
+    expect(visualOrder("אב 10.25 גד")).toBe("דג 10.25 בא");
   });
 });
