@@ -50,7 +50,7 @@ export function humanize(key: string): string {
 
 /** Trade abbreviations keep their capitals in labels. */
 const ABBREVIATIONS: Record<string, string> = {
-  sd: "SD", mtd: "MTD", dlt: "DLT", dlts: "DLTs", pet: "PET", hr: "HR", ci: "CI", id: "id",
+  sd: "SD", mtd: "MTD", crm: "CRM", boin: "BOIN", dlt: "DLT", dlts: "DLTs", pet: "PET", hr: "HR", ci: "CI", id: "id",
 };
 
 /** Copies text, falling back to selecting it when the clipboard is not available. */

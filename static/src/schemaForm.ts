@@ -61,6 +61,15 @@ function countText(schema: JsonSchema, noun: string): string {
   return "";
 }
 
+/** Unit, bounds, item count and default, for the help line under a field's description. */
+function detailsText(schema: JsonSchema): string {
+  const type = typeOf(schema);
+  const itemType = schema.items ? typeOf(schema.items) : undefined;
+  return [schema.unit ? `Unit: ${schema.unit}.` : "", boundsText(schema),
+    type === "array" ? countText(schema, itemType === "object" ? "rows" : "items") : "",
+    schema.default !== undefined && !Array.isArray(schema.default) && typeof schema.default !== "object" ? `Default ${String(schema.default)}.` : ""].filter(Boolean).join(" ");
+}
+
 const controlId = (path: Path): string => `f-${path.join("-")}`;
 
 function numberInput(id: string, schema: JsonSchema, label?: string): HTMLInputElement {
@@ -315,6 +324,50 @@ function tableWidget(key: string, label: string, schema: JsonSchema, optional: b
   };
 }
 
+/** One record (a single scenario, say): its fields one under another, each with its own label and help. */
+function objectWidget(key: string, label: string, schema: JsonSchema, optional: boolean): Widget {
+  const required = new Set(schema.required ?? []);
+  const parts = Object.entries(schema.properties ?? {}).map(([name, s]) => {
+    const scalar = scalarControl([key, name], s, !required.has(name) && s.default === undefined);
+    const helpId = `help-${key}-${name}`;
+    scalar.control.setAttribute("aria-describedby", helpId);
+    const element = h("div", { class: "subfield" },
+      h("label", { for: scalar.control.id }, s.title ?? humanize(name)),
+      h("p", { class: "help", id: helpId }, s.description ?? "", detailsText(s) ? h("span", { class: "bounds" }, ` ${detailsText(s)}`) : null),
+      scalar.control);
+    return { name, element, ...scalar };
+  });
+  const subfields = h("div", { class: "subfields" }, ...parts.map((p) => p.element));
+  // A record the design can do without is switched on and off as a whole, so leaving it out stays possible.
+  const include = optional ? h("input", { type: "checkbox", id: controlId([key, "include"]) }) : null;
+  const showParts = (): void => { if (include) subfields.hidden = !include.checked; };
+  include?.addEventListener("change", showParts);
+  const element = include
+    ? h("div", {}, h("div", { class: "check-row" }, include, h("label", { for: include.id }, `Include ${label.charAt(0).toLowerCase()}${label.slice(1)}`)), subfields)
+    : subfields;
+  return {
+    element,
+    read: () => {
+      if (include && !include.checked) return { omit: true };
+      const record: Record<string, unknown> = {};
+      for (const part of parts) {
+        const r = part.read();
+        if ("problem" in r) return { problem: `${humanize(part.name)}: ${r.problem}`, at: [part.name] };
+        if ("value" in r) record[part.name] = r.value;
+      }
+      return { value: record };
+    },
+    write: (v) => {
+      const given = v !== null && typeof v === "object";
+      const record = given ? (v as Record<string, unknown>) : {};
+      for (const part of parts) part.write(record[part.name] ?? schema.properties?.[part.name]?.default);
+      if (include) include.checked = given;
+      showParts();
+    },
+    controlAt: (path) => (path.length === 0 && include ? include : (parts.find((p) => p.name === String(path[0])) ?? parts[0])?.control ?? null),
+  };
+}
+
 /** Anything the form has no control for: JSON typed in by hand. */
 function jsonWidget(key: string): Widget {
   const area = h("textarea", { id: controlId([key]), rows: 3, spellcheck: "false", class: "code" });
@@ -368,9 +421,7 @@ export class SchemaForm {
     const type = typeOf(schema);
     const choices = choicesOf(schema);
     const itemType = schema.items ? typeOf(schema.items) : undefined;
-    const details = [schema.unit ? `Unit: ${schema.unit}.` : "", boundsText(schema),
-      type === "array" ? countText(schema, itemType === "object" ? "rows" : "items") : "",
-      schema.default !== undefined && !Array.isArray(schema.default) && typeof schema.default !== "object" ? `Default ${String(schema.default)}.` : ""].filter(Boolean).join(" ");
+    const details = detailsText(schema);
     const help = h("p", { class: "help", id: helpId }, schema.description ?? "", details ? h("span", { class: "bounds" }, ` ${details}`) : null);
     const error = h("p", { class: "field-error", id: errorId, hidden: true });
     const labelText = [label, optional ? h("span", { class: "optional" }, " (optional)") : null];
@@ -385,6 +436,9 @@ export class SchemaForm {
       container = h("fieldset", { class: "field wide", "data-field": key, "aria-describedby": `${helpId} ${errorId}` }, h("legend", {}, ...labelText), help, widget.element, error);
     } else if (type === "array" && schema.items && (itemType === "number" || itemType === "integer" || itemType === "string" || choicesOf(schema.items))) {
       widget = listWidget(key, label, schema, optional);
+      container = h("fieldset", { class: "field", "data-field": key, "aria-describedby": `${helpId} ${errorId}` }, h("legend", {}, ...labelText), help, widget.element, error);
+    } else if (type === "object" && schema.properties && Object.values(schema.properties).every((p) => typeOf(p) !== "object" && !(typeOf(p) === "array" && p.items && typeOf(p.items) === "object"))) {
+      widget = objectWidget(key, label, schema, optional);
       container = h("fieldset", { class: "field", "data-field": key, "aria-describedby": `${helpId} ${errorId}` }, h("legend", {}, ...labelText), help, widget.element, error);
     } else if (choices || type === "number" || type === "integer" || type === "string" || type === "boolean") {
       const scalar = scalarControl([key], schema, optional);
