@@ -20,7 +20,7 @@ export default defineConfig({
           include: ["test/browser/**/*.test.ts"],
           environment: "node",
           globalSetup: ["test/browser/globalSetup.ts"],
-          testTimeout: 30000,
+          testTimeout: 60000,
           hookTimeout: 90000,
           fileParallelism: false,
         },
