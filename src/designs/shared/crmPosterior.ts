@@ -207,6 +207,10 @@ const GRID_LIMIT = 24;
 /** From 0.0125 (posteriors of a thousand patients or a tight prior) to 0.8; each level is tabulated only when first needed. */
 const FINEST_PANEL = 0.0125;
 const LEVELS = 7;
+/** Widest panel: the logistic model's poles lie 0.81 from the real axis. */
+const MAX_PANEL = 0.8;
+/** Scale units around the mode that keep the finest panels. */
+const INNER_REACH = 6;
 /** Gauss-Legendre nodes per panel of the fast rule. */
 export const FAST_NODES_PER_PANEL = 8;
 
@@ -246,6 +250,12 @@ export class CrmFastPosterior {
   private readonly dlts: Float64Array;
   private readonly offsets: Int32Array;
   private lastMode = 0;
+  /** Running sums of one update. */
+  private tried = 0;
+  private peak = 0;
+  private total = 0;
+  private first = 0;
+  private lower = 0;
 
   constructor(model: CrmModel, target: number) {
     this.lp = new LogPosterior(model);
@@ -319,14 +329,19 @@ export class CrmFastPosterior {
     const scale = lp.scale(mode);
     const lo = Math.max(-GRID_LIMIT, mode - lp.reach(mode, peak, scale, -1, 36) * scale);
     const hi = Math.min(GRID_LIMIT, mode + lp.reach(mode, peak, scale, 1, 36) * scale);
-    let levelIndex = 0;
-    while (levelIndex + 1 < LEVELS && FINEST_PANEL * 2 ** (levelIndex + 1) <= Math.min(scale, 0.8)) levelIndex++;
-    const g = this.level(levelIndex);
-    const m = FAST_NODES_PER_PANEL;
-    const firstPanel = Math.max(0, Math.floor((lo + GRID_LIMIT) / g.width));
-    const lastPanel = Math.min(g.panels - 1, Math.floor((hi + GRID_LIMIT) / g.width));
+    let fineIndex = 0;
+    while (fineIndex + 1 < LEVELS && FINEST_PANEL * 2 ** (fineIndex + 1) <= Math.min(scale, MAX_PANEL)) fineIndex++;
+    // Beyond INNER_REACH scale units of the mode the density is small and, where a
+    // long prior-dominated tail remains, smooth on a longer scale: panels up to
+    // four times wider there (never above MAX_PANEL).
+    let coarseIndex = fineIndex;
+    while (coarseIndex + 1 < LEVELS && coarseIndex < fineIndex + 2 && FINEST_PANEL * 2 ** (coarseIndex + 1) <= MAX_PANEL) coarseIndex++;
+    const fine = this.level(fineIndex);
+    const coarse = this.level(coarseIndex);
+    const ratio = 2 ** (coarseIndex - fineIndex);
+    const innerLo = mode - INNER_REACH * scale;
+    const innerHi = mode + INNER_REACH * scale;
     const k = this.doseCount;
-    // Tried doses only, as offsets into the tables with their counts.
     let tried = 0;
     for (let i = 0; i < k; i++) {
       const n = patients[i]!;
@@ -337,21 +352,45 @@ export class CrmFastPosterior {
         tried++;
       }
     }
+    this.tried = tried;
+    this.peak = peak;
+    this.meanProbability.fill(0);
+    this.total = 0;
+    this.first = 0;
+    this.lower = 0;
+    const firstPanel = Math.max(0, Math.floor((lo + GRID_LIMIT) / coarse.width));
+    const lastPanel = Math.min(coarse.panels - 1, Math.floor((hi + GRID_LIMIT) / coarse.width));
+    for (let q = firstPanel; q <= lastPanel; q++) {
+      const start = -GRID_LIMIT + q * coarse.width;
+      if (start + coarse.width > innerLo && start < innerHi) {
+        for (let f = q * ratio; f < (q + 1) * ratio; f++) this.addPanel(fine, f);
+      } else {
+        this.addPanel(coarse, q);
+      }
+    }
+    for (let i = 0; i < k; i++) this.meanProbability[i]! /= this.total;
+    this.meanParameter = this.first / this.total;
+    this.probabilityLowestAboveTarget = this.safetyParameter >= -GRID_LIMIT + (lastPanel + 1) * coarse.width ? 1 : Math.min(1, this.lower / this.total);
+  }
+
+  /** Adds one tabulated panel's nodes to the running sums; the panel holding a* adds only its part below a* to the lower mass. */
+  private addPanel(g: GridLevel, panel: number): void {
+    const m = FAST_NODES_PER_PANEL;
+    const k = this.doseCount;
+    const tried = this.tried;
     const offsets = this.offsets;
     const events = this.dlts;
     const nonEvents = this.patients;
     const logP = g.logP;
     const log1mP = g.log1mP;
+    const p = g.p;
     const means = this.meanProbability;
-    means.fill(0);
+    const peak = this.peak;
+    const start = -GRID_LIMIT + panel * g.width;
+    const below = start + g.width <= this.safetyParameter;
     let total = 0;
     let first = 0;
-    let lower = 0;
-    const safety = this.safetyParameter;
-    const safetyPanel = Math.floor((safety + GRID_LIMIT) / g.width);
-    const safetyNode = safetyPanel * m;
-    const p = g.p;
-    for (let node = firstPanel * m; node < (lastPanel + 1) * m; node++) {
+    for (let node = panel * m; node < (panel + 1) * m; node++) {
       const base = node * k;
       let l = g.logPrior[node]! - peak;
       for (let j = 0; j < tried; j++) {
@@ -364,15 +403,11 @@ export class CrmFastPosterior {
       total += w;
       first += w * g.a[node]!;
       for (let i = 0; i < k; i++) means[i]! += w * p[base + i]!;
-      if (node < safetyNode) lower += w;
     }
-    for (let i = 0; i < k; i++) means[i]! /= total;
-    this.meanParameter = first / total;
-    // The panel holding a* contributes only its part below a*.
-    if (safetyPanel >= firstPanel && safetyPanel <= lastPanel) {
-      lower += this.partialMass(-GRID_LIMIT + safetyPanel * g.width, safety, peak);
-    }
-    this.probabilityLowestAboveTarget = safetyPanel > lastPanel ? 1 : Math.min(1, lower / total);
+    this.total += total;
+    this.first += first;
+    if (below) this.lower += total;
+    else if (start < this.safetyParameter) this.lower += this.partialMass(start, this.safetyParameter, peak);
   }
 
   private partialMass(a0: number, a1: number, peak: number): number {
