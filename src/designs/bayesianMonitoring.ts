@@ -350,7 +350,8 @@ function documentBayesianMonitoring(entered: BayesianMonitoringInput, r: Bayesia
       ? `stop for futility when P(response rate < ${input.limit} | data) > ${input.threshold}`
       : `stop when P(toxicity rate > ${input.limit} | data) > ${input.threshold}`
     : `stop for futility when the predictive probability of a promising final result is below ${input.futilityThreshold}`;
-  const firstRun = r.runs[0]!;
+  // A predictive rule whose futility threshold is too low to act has no run; the posterior rule always has one.
+  const firstRun: BoundaryRun | undefined = r.runs[0];
   const at = (rate: number): RateCharacteristics => r.operatingCharacteristics.find((c) => c.rate === rate)!;
 
   const facts = posterior
@@ -358,7 +359,7 @@ function documentBayesianMonitoring(entered: BayesianMonitoringInput, r: Bayesia
         const l = at(input.limit!);
         return [
           { label: "Rule", value: ruleText, key: true },
-          { label: "Earliest possible stop", value: countText(firstRun.events, firstRun.fromPatients, r.direction, event), key: true },
+          { label: "Earliest possible stop", value: firstRun ? countText(firstRun.events, firstRun.fromPatients, r.direction, event) : "none", key: true },
           { label: `P(rule stops) at a true rate of ${input.limit}`, value: l.probabilityOfStopping, digits: 4, key: true },
           { label: `Expected patients at a true rate of ${input.limit}`, value: l.expectedSampleSize, digits: 2, key: true },
           { label: "Prior", value: prior, note: `mean ${fmt(input.priorA / (input.priorA + input.priorB))}, weight ${input.priorA + input.priorB} patients` },
@@ -401,7 +402,9 @@ function documentBayesianMonitoring(entered: BayesianMonitoringInput, r: Bayesia
     ? [c.rate, c.probabilityOfStopping, c.probabilityOfEarlyTermination, c.expectedSampleSize]
     : [c.rate, c.probabilityPromising, c.probabilityOfEarlyTermination, c.expectedSampleSize]);
 
-  const runsText = r.runs.map((run) => runSentence(run, r.direction, event).replace(/^After/, "after")).join("; ");
+  const runsText = r.runs.length
+    ? r.runs.map((run) => runSentence(run, r.direction, event).replace(/^After/, "after")).join("; ")
+    : "no interim result is low enough to stop the trial";
   const protocol = posterior
     ? (() => {
         const l = at(input.limit!);
@@ -435,7 +438,9 @@ function documentBayesianMonitoring(entered: BayesianMonitoringInput, r: Bayesia
               { key: "to", label: "To patient" },
             ],
             rows: runRows,
-            note: r.boundary[0]!.stopAt === null ? `No count stops the trial before patient ${firstRun.fromPatients}.` : undefined,
+            note: !firstRun
+              ? `No interim count stops the trial: the futility threshold is too low to act before patient ${input.maxN}.`
+              : r.boundary[0]?.stopAt === null ? `No count stops the trial before patient ${firstRun.fromPatients}.` : undefined,
           },
         },
         {

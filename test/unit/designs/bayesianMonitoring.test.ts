@@ -221,6 +221,14 @@ describe("bayesian-monitoring inputs", () => {
     expect(JSON.parse(JSON.stringify(result))).toEqual(result);
     expect(bayesianMonitoring.document(input, result).map((s) => s.id)).toEqual(["design", "operating-characteristics", "protocol"]);
   });
+  it("documents a predictive rule whose futility threshold never acts (one response at the end suffices)", () => {
+    const input = parse({ rule: "predictive", p0: 1e-12, p1: 0.05, priorA: 1, priorB: 1000, maxN: 40, firstCheck: 1, efficacyThreshold: 0.9999999999999999, futilityThreshold: 1e-300 });
+    const result = bayesianMonitoring.compute(input);
+    expect(result.finalSuccessCount).toBe(1);
+    expect(result.runs).toEqual([]);
+    const text = JSON.stringify(bayesianMonitoring.document(input, result));
+    expect(text).toContain("No interim count stops the trial");
+  });
   it("fills defaults by rule", () => {
     expect(parse({ limit: 0.3, maxN: 20 })).toMatchObject({ rule: "posterior", monitor: "toxicity", threshold: 0.9, firstCheck: 1, cohortSize: 1 });
     const p = parse({ rule: "predictive", p0: 0.1, p1: 0.3, maxN: 20, cohortSize: 4 });
