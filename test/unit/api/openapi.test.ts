@@ -9,7 +9,7 @@ import { catalog } from "../../../src/designs/catalog.js";
 describe("OpenAPI document", () => {
   it("is a valid OpenAPI 3.1 document", async () => {
     const validator = new Validator();
-    const result = await validator.validate(openApiDocument() as object);
+    const result = await validator.validate(openApiDocument() as Record<string, unknown>);
     expect(result.errors ?? [], JSON.stringify(result.errors, null, 2)).toEqual([]);
     expect(result.valid).toBe(true);
     expect(validator.version).toBe("3.1");
@@ -17,7 +17,7 @@ describe("OpenAPI document", () => {
 
   it("the validator does reject a broken copy (so the check above can fail)", async () => {
     const broken = { ...openApiDocument(), info: { title: 42 } };
-    const result = await new Validator().validate(broken as object);
+    const result = await new Validator().validate(broken as Record<string, unknown>);
     expect(result.valid).toBe(false);
   });
 
