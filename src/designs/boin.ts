@@ -36,18 +36,18 @@ import { betaSurvival } from "../stats/beta.js";
 import { isotonicRegression } from "../stats/isotonic.js";
 import { type RandomSource } from "../stats/random.js";
 import {
-  MAX_DOSES, type OperatingCharacteristics, assertSimulationBudget, checkDoseFindingInput, checkObservedData, checkScenarios,
-  doseFindingFields, issueReporter, observedDataField, operatingCharacteristicsSection, selectionText, simulateScenarios,
-  simulationFields, treatCohort, type TrialEnd,
+  MAX_DOSES, type OperatingCharacteristics, SIMULATION_CAUTION, checkDoseFindingInput, checkUseInputs, doseFindingFields, issueReporter,
+  observedCounts, observedDataField, operatingCharacteristicsSection, scheduleFacts, simulatePlan, simulationFields, simulationProtocolText,
+  treatCohort, type TrialEnd, useField,
 } from "./shared/doseFinding.js";
+import { LIU_YUAN_2015 } from "./shared/doseFindingReferences.js";
 
 /** Trials × scenarios × decisions × doses one request may simulate (a few seconds on one core). */
 export const BOIN_WORK_LIMIT = 30_000_000;
 
 const schema = z
   .strictObject({
-    use: z.enum(["plan", "next-dose"]).default("plan")
-      .describe("plan: simulate trials under scenarios to get operating characteristics. next-dose: the decision for the next cohort from the data so far."),
+    use: useField("the decision for the next cohort from the data so far."),
     ...doseFindingFields,
     underdosingLimit: z.number().gt(0).lt(1).optional()
       .describe("φ1: the highest DLT rate considered underdosing, so that escalation should follow (default 0.6 × target)."),
@@ -70,11 +70,8 @@ const schema = z
     if (!(lower < v.target)) issue(["underdosingLimit"], `The underdosing limit (${lower}) must be below the target (${v.target}).`);
     if (!(upper > v.target)) issue(["overdosingLimit"], `The overdosing limit (${upper}) must be above the target (${v.target}).`);
     if (!(upper < 1)) issue([v.overdosingLimit === undefined ? "target" : "overdosingLimit"], `The overdosing limit (${upper.toFixed(3)}) must be below 1; with a target this high, give overdosingLimit explicitly.`);
-    checkScenarios(v.scenarios, v.doses.length, issue);
-    checkObservedData(v.data, v.doses.length, issue);
-    if (v.use === "plan" && !v.scenarios) issue(["scenarios"], "Planning needs at least one scenario of true DLT probabilities.");
+    checkUseInputs(v, v.doses.length, issue, "decision");
     if (v.use === "next-dose") {
-      if (!v.data) issue(["data"], "The next-dose decision needs the data so far: patients and DLTs at each dose.");
       if (v.currentDose === undefined) issue(["currentDose"], "Give the dose the last cohort received (numbered from 1).");
       else if (v.currentDose > v.doses.length) issue(["currentDose"], `The current dose must be one of the ${v.doses.length} doses.`);
       else if (v.data && v.data[v.currentDose - 1] && v.data[v.currentDose - 1]!.patients === 0) issue(["currentDose"], `Dose ${v.currentDose} has no patients yet; give the dose the last cohort received.`);
@@ -221,9 +218,7 @@ export interface BoinResult {
 
 function boinNextDose(input: BoinInput): BoinNextDose {
   const data = input.data!;
-  const patients = data.map((d) => d.patients);
-  const dlts = data.map((d) => d.dlts);
-  const total = patients.reduce((a, b) => a + b, 0);
+  const { patients, dlts, total } = observedCounts(data);
   const table = boinDecisionTable(input, Math.max(input.maxSampleSize, ...patients));
   const eliminatedFrom = eliminatedFromData(patients, dlts, table);
   const c = input.currentDose! - 1;
@@ -246,14 +241,11 @@ export function computeBoin(input: BoinInput): BoinResult {
   const boundaries = boinBoundaries(input.target, input.underdosingLimit, input.overdosingLimit);
   const decisionTable = boinDecisionTable(input, input.maxSampleSize);
   if (input.use === "next-dose") return { boundaries, decisionTable, nextDose: boinNextDose(input), operatingCharacteristics: null };
-  const scenarios = input.scenarios!;
-  assertSimulationBudget("BOIN", { trials: input.trials, scenarios: scenarios.length, maxSampleSize: input.maxSampleSize, cohortSize: input.cohortSize, doses: input.doses.length }, BOIN_WORK_LIMIT);
-  return { boundaries, decisionTable, nextDose: null, operatingCharacteristics: simulateScenarios(scenarios, input.target, input.trials, input.seed, boinTrialRunner(input)) };
+  return { boundaries, decisionTable, nextDose: null, operatingCharacteristics: simulatePlan("BOIN", input, BOIN_WORK_LIMIT, () => boinTrialRunner(input)) };
 }
 
 const f3 = (x: number): string => x.toFixed(3);
 const lowerFirst = (text: string): string => text.charAt(0).toLowerCase() + text.slice(1);
-const pct = (x: number): string => `${(x * 100).toFixed(1)}%`;
 
 function actionText(r: BoinNextDose, doses: string[]): string {
   switch (r.action) {
@@ -281,9 +273,7 @@ function documentBoin(input: BoinInput, r: BoinResult): Section[] {
             { label: "Underdosing limit φ1", value: input.underdosingLimit, digits: 3 },
             { label: "Overdosing limit φ2", value: input.overdosingLimit, digits: 3 },
             { label: "Elimination rule", value: `P(DLT rate > ${input.target}) > ${input.eliminationCutoff} with at least ${input.eliminationMinPatients} patients` },
-            { label: "Cohort size", value: input.cohortSize },
-            { label: "Start dose", value: doses[input.startDose - 1]! },
-            { label: "Maximum sample size", value: input.maxSampleSize },
+            ...scheduleFacts(input),
           ],
         },
         {
@@ -353,10 +343,7 @@ function protocolText(input: BoinInput, r: BoinResult): string {
     `A dose and all higher doses are eliminated when, with at least ${input.eliminationMinPatients} patients treated, the posterior probability (beta(1,1) prior) that its DLT rate exceeds ${input.target} is above ${input.eliminationCutoff}; the trial stops with no dose selected if the lowest dose is eliminated. ` +
     `At the end, the MTD is the dose whose isotonic (pool-adjacent-violators) estimate of the DLT rate is closest to ${input.target}.`;
   const ocs = r.operatingCharacteristics;
-  if (ocs) {
-    text += ` In ${input.trials} simulated trials per scenario (seed ${input.seed}), ` + ocs.map((oc) =>
-      `under the scenario "${oc.scenario}" (true MTD ${input.doses[oc.trueMtd]}) the design selects ${selectionText(input.doses, oc)}, treating on average ${oc.meanTotalPatients.toFixed(1)} patients, ${pct(oc.treatedAboveMtd)} of them above the true MTD`).join("; ") + ".";
-  }
+  if (ocs) text += simulationProtocolText(input.doses, input.trials, input.seed, ocs);
   const nd = r.nextDose;
   if (nd) text += ` With the data so far (${nd.totalPatients} patients; ${input.data![nd.currentDose]!.dlts} of ${input.data![nd.currentDose]!.patients} with a DLT at ${input.doses[nd.currentDose]}), the decision is: ${lowerFirst(actionText(nd, input.doses))}.`;
   return text;
@@ -393,12 +380,12 @@ export const boin: Design<BoinInput, BoinResult> = {
     : `Under the BOIN design targeting a DLT rate of ${input.target} with at most ${input.maxSampleSize} patients, how often is each dose selected as the MTD, and how many patients are treated at each dose, under each scenario?`,
   document: documentBoin,
   references: [
-    { key: "Liu & Yuan 2015", text: "Liu S, Yuan Y. Bayesian optimal interval designs for phase I clinical trials. Journal of the Royal Statistical Society, Series C (Applied Statistics). 2015;64(3):507-523.", doi: "10.1111/rssc.12089" },
+    LIU_YUAN_2015,
     { key: "Yuan, Hess, Hilsenbeck & Gilbert 2016", text: "Yuan Y, Hess KR, Hilsenbeck SG, Gilbert MR. Bayesian optimal interval design: a simple and well-performing design for phase I oncology trials. Clinical Cancer Research. 2016;22(17):4291-4301.", doi: "10.1158/1078-0432.CCR-16-0592" },
     { key: "Barlow et al. 1972", text: "Barlow RE, Bartholomew DJ, Bremner JM, Brunk HD. Statistical Inference under Order Restrictions. London: Wiley; 1972." },
   ],
   cautions: [
-    "Operating characteristics are estimated from simulated trials: each percentage carries Monte Carlo error (about ±3 percentage points at 1,000 trials). Use more trials for a protocol.",
+    SIMULATION_CAUTION,
     "The boundaries assume toxicity does not decrease with dose and that each DLT is observed before the next cohort is dosed; late-onset toxicities need a design that allows for them.",
     "The decision table guides, it does not replace, the clinical judgement of the safety review committee.",
   ],

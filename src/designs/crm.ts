@@ -34,9 +34,10 @@ import type { Design } from "./design.js";
 import type { Section } from "../report/document.js";
 import type { RandomSource } from "../stats/random.js";
 import {
-  MAX_DOSES, type OperatingCharacteristics, type TrialEnd, assertSimulationBudget, checkDoseFindingInput, checkObservedData, checkScenarios,
-  doseFindingFields, issueReporter, observedDataField, operatingCharacteristicsSection, selectionText, simulateScenarios, simulationFields, treatCohort,
+  MAX_DOSES, type OperatingCharacteristics, SIMULATION_CAUTION, type TrialEnd, checkDoseFindingInput, checkUseInputs, doseFindingFields, issueReporter,
+  observedCounts, observedDataField, operatingCharacteristicsSection, scheduleFacts, simulatePlan, simulationFields, simulationProtocolText, treatCohort, useField,
 } from "./shared/doseFinding.js";
+import { LEE_CHEUNG_2009, OQUIGLEY_PEPE_FISHER_1990 } from "./shared/doseFindingReferences.js";
 import { type CrmModel, calibrateSkeleton, doseConstants, doseProbability, logisticCeiling } from "./shared/crmModel.js";
 import { CrmFastPosterior, type CrmPosteriorSummary, crmPosterior } from "./shared/crmPosterior.js";
 
@@ -45,8 +46,7 @@ export const CRM_WORK_LIMIT = 2_000_000;
 
 const schema = z
   .strictObject({
-    use: z.enum(["plan", "next-dose"]).default("plan")
-      .describe("plan: simulate trials under scenarios to get operating characteristics. next-dose: the recommended dose for the next cohort from the data so far."),
+    use: useField("the recommended dose for the next cohort from the data so far."),
     ...doseFindingFields,
     model: z.enum(["power", "logistic"]).default("power")
       .describe("Dose-toxicity model: power (\"empiric\") p = skeleton^exp(a), or one-parameter logistic p = 1/(1 + exp(-(a0 + exp(a) x))) with the intercept a0 fixed."),
@@ -84,10 +84,7 @@ const schema = z
       if (v.skeletonHalfWidth >= v.target) issue(["skeletonHalfWidth"], `The half-width (${v.skeletonHalfWidth}) must be below the target (${v.target}).`);
       if (v.target + v.skeletonHalfWidth >= ceiling) issue(["skeletonHalfWidth"], `Target plus half-width (${v.target + v.skeletonHalfWidth}) must be below ${v.model === "logistic" ? ceiling.toFixed(4) : 1}.`);
     }
-    checkScenarios(v.scenarios, k, issue);
-    checkObservedData(v.data, k, issue);
-    if (v.use === "plan" && !v.scenarios) issue(["scenarios"], "Planning needs at least one scenario of true DLT probabilities.");
-    if (v.use === "next-dose" && !v.data) issue(["data"], "The next-dose recommendation needs the data so far: patients and DLTs at each dose.");
+    checkUseInputs(v, k, issue, "recommendation");
   })
   .transform((v) => ({ ...v, priorMtd: v.priorMtd ?? Math.ceil(v.doses.length / 2) }));
 
@@ -130,9 +127,7 @@ export function crmRecommend(estimates: ArrayLike<number>, target: number, highe
 
 function crmNextDose(input: CrmInput, model: CrmModel): CrmNextDose {
   const data = input.data!;
-  const patients = data.map((d) => d.patients);
-  const dlts = data.map((d) => d.dlts);
-  const total = patients.reduce((a, b) => a + b, 0);
+  const { patients, dlts, total } = observedCounts(data);
   let highestTried = -1;
   patients.forEach((n, i) => { if (n > 0) highestTried = i; });
   const summary = crmPosterior(model, patients, dlts, input.target, 0.9);
@@ -179,9 +174,7 @@ export function computeCrm(input: CrmInput): CrmResult {
     logisticDoseLabels: input.model === "logistic" ? Array.from(doseConstants(model)) : null,
   };
   if (input.use === "next-dose") return { ...base, nextDose: crmNextDose(input, model), operatingCharacteristics: null };
-  const scenarios = input.scenarios!;
-  assertSimulationBudget("CRM", { trials: input.trials, scenarios: scenarios.length, maxSampleSize: input.maxSampleSize, cohortSize: input.cohortSize, doses: input.doses.length }, CRM_WORK_LIMIT);
-  return { ...base, nextDose: null, operatingCharacteristics: simulateScenarios(scenarios, input.target, input.trials, input.seed, crmTrialRunner(input, model)) };
+  return { ...base, nextDose: null, operatingCharacteristics: simulatePlan("CRM", input, CRM_WORK_LIMIT, () => crmTrialRunner(input, model)) };
 }
 
 const f3 = (x: number): string => x.toFixed(3);
@@ -214,9 +207,7 @@ function documentCrm(input: CrmInput, r: CrmResult): Section[] {
             { label: "Prior on a", value: `normal, mean 0, variance ${input.priorVariance}` },
             { label: "Skeleton", value: r.skeleton.map(f3).join(", "), key: true, note: r.skeletonCalibrated ? `calibrated: indifference interval ${f3(input.target - input.skeletonHalfWidth)} to ${f3(input.target + input.skeletonHalfWidth)}, prior MTD ${doses[input.priorMtd - 1]}` : "given" },
             { label: "Dose estimate", value: input.doseEstimate === "posterior-mean" ? "posterior mean of the DLT probability" : "model at the posterior mean of a (plug-in)" },
-            { label: "Cohort size", value: input.cohortSize },
-            { label: "Start dose", value: doses[input.startDose - 1]! },
-            { label: "Maximum sample size", value: input.maxSampleSize },
+            ...scheduleFacts(input),
             { label: "Safety stop", value: `P(DLT rate at ${doses[0]} > ${input.target}) > ${input.safetyThreshold}` },
           ],
         },
@@ -319,10 +310,7 @@ function protocolText(input: CrmInput, r: CrmResult): string {
     `Patients are treated in cohorts of ${input.cohortSize}, starting at ${doses[input.startDose - 1]}. After each cohort, the posterior distribution of a is updated by numerical integration and the next cohort receives the dose whose ${input.doseEstimate === "posterior-mean" ? "posterior mean DLT probability" : "DLT probability at the posterior mean of a"} is closest to ${input.target}, without skipping an untried dose when escalating. ` +
     `The trial stops for safety if the posterior probability that the DLT rate at ${doses[0]} exceeds ${input.target} is above ${input.safetyThreshold}; otherwise it ends after ${input.maxSampleSize} patients, and the MTD is the dose recommended for the next patient.`;
   const ocs = r.operatingCharacteristics;
-  if (ocs) {
-    text += ` In ${input.trials} simulated trials per scenario (seed ${input.seed}), ` + ocs.map((oc) =>
-      `under the scenario "${oc.scenario}" (true MTD ${doses[oc.trueMtd]}) the design selects ${selectionText(doses, oc)}, treating on average ${oc.meanTotalPatients.toFixed(1)} patients, ${(oc.treatedAboveMtd * 100).toFixed(1)}% of them above the true MTD`).join("; ") + ".";
-  }
+  if (ocs) text += simulationProtocolText(doses, input.trials, input.seed, ocs);
   const nd = r.nextDose;
   if (nd) {
     text += nd.stoppedForSafety
@@ -366,13 +354,13 @@ export const crm: Design<CrmInput, CrmResult> = {
     : `Under the CRM targeting a DLT rate of ${input.target} with at most ${input.maxSampleSize} patients, how often is each dose selected as the MTD, and how many patients are treated at each dose, under each scenario?`,
   document: documentCrm,
   references: [
-    { key: "O'Quigley, Pepe & Fisher 1990", text: "O'Quigley J, Pepe M, Fisher L. Continual reassessment method: a practical design for phase 1 clinical trials in cancer. Biometrics. 1990;46(1):33-48.", doi: "10.2307/2531628" },
-    { key: "Lee & Cheung 2009", text: "Lee SM, Cheung YK. Model calibration in the continual reassessment method. Clinical Trials. 2009;6(3):227-238.", doi: "10.1177/1740774509105076" },
+    OQUIGLEY_PEPE_FISHER_1990,
+    LEE_CHEUNG_2009,
     { key: "Cheung & Chappell 2002", text: "Cheung YK, Chappell R. A simple technique to evaluate model sensitivity in the continual reassessment method. Biometrics. 2002;58(3):671-674.", doi: "10.1111/j.0006-341X.2002.00671.x" },
     { key: "Cheung 2011", text: "Cheung YK. Dose Finding by the Continual Reassessment Method. Boca Raton: Chapman & Hall/CRC; 2011." },
   ],
   cautions: [
-    "Operating characteristics are estimated from simulated trials: each percentage carries Monte Carlo error (about ±3 percentage points at 1,000 trials). Use more trials for a protocol.",
+    SIMULATION_CAUTION,
     "The CRM's behaviour depends on the skeleton and the prior; check the operating characteristics under several scenarios, including one where every dose is too toxic and one where every dose is safe.",
     "The model assumes toxicity increases with dose and that each DLT is observed before the next cohort is dosed.",
     "A model-based recommendation supports, it does not replace, the safety review committee's decision.",

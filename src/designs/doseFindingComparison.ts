@@ -28,8 +28,9 @@ import { type BoinInput, BOIN_WORK_LIMIT, boinBoundaries, boinTrialRunner } from
 import { logisticCeiling } from "./shared/crmModel.js";
 import {
   MAX_DOSES, type OperatingCharacteristics, assertSimulationBudget, checkDoseFindingInput, checkScenarios, doseFindingFields,
-  issueReporter, scenarioSchema, scenarioSeed, selectionChart, simulateScenario, simulationFields, trueMtd,
+  issueReporter, scenarioSchema, scenarioSeed, selectionChart, simulateScenario, simulationFields, summaryCells, summaryColumns, trueMtd,
 } from "./shared/doseFinding.js";
+import { LEE_CHEUNG_2009, LIU_YUAN_2015, OQUIGLEY_PEPE_FISHER_1990, STORER_1989 } from "./shared/doseFindingReferences.js";
 
 const { scenarios: _unused, ...simulationControls } = simulationFields;
 
@@ -160,7 +161,7 @@ function documentComparison(v: DoseFindingComparisonInput, r: DoseFindingCompari
   const [tpt, crmOc, boinOc] = r.designs.map((d) => d.operatingCharacteristics) as [OperatingCharacteristics, OperatingCharacteristics, OperatingCharacteristics];
   const summaryRows: Cell[][] = r.designs.map((d) => {
     const oc = d.operatingCharacteristics;
-    return [d.design, d.exact ? "exact" : `${v.trials} simulated trials`, pct(oc.correctSelectionProbability), pct(oc.noSelectionProbability), oc.meanTotalPatients, oc.meanTotalDlts, pct(oc.treatedAboveMtd), pct(oc.treatedAboveTarget)];
+    return [d.design, d.exact ? "exact" : `${v.trials} simulated trials`, ...summaryCells(oc)];
   });
   const perDose = (pick: (oc: OperatingCharacteristics, i: number) => number, none: ((oc: OperatingCharacteristics) => number) | null): Cell[][] => {
     const rows: Cell[][] = doses.map((d, i) => [d, v.scenario.dltProbabilities[i]!, pick(tpt, i), pick(crmOc, i), pick(boinOc, i)]);
@@ -197,16 +198,7 @@ function documentComparison(v: DoseFindingComparisonInput, r: DoseFindingCompari
           table: {
             id: "summary",
             caption: "Operating characteristics side by side",
-            columns: [
-              { key: "design", label: "Design" },
-              { key: "how", label: "Computed by" },
-              { key: "correct", label: "Correct selection (%)", digits: 1 },
-              { key: "none", label: "No dose selected (%)", digits: 1 },
-              { key: "patients", label: "Mean patients", digits: 1 },
-              { key: "dlts", label: "Mean DLTs", digits: 2 },
-              { key: "above", label: "Treated above true MTD (%)", digits: 1 },
-              { key: "overTarget", label: "Treated at doses above target (%)", digits: 1 },
-            ],
+            columns: [{ key: "design", label: "Design" }, { key: "how", label: "Computed by" }, ...summaryColumns],
             rows: summaryRows,
             note: "The 3+3 figures are exact probabilities and expectations; the CRM and BOIN figures are estimated from simulated trials and carry Monte Carlo error.",
           },
@@ -277,10 +269,10 @@ export const doseFindingComparison: Design<DoseFindingComparisonInput, DoseFindi
   question: (v) => `If the true DLT probabilities at ${v.doses.join(", ")} are ${v.scenario.dltProbabilities.join(", ")}, how do the 3+3 design, the CRM and BOIN targeting ${v.target} compare in selecting the MTD and in the patients they treat?`,
   document: documentComparison,
   references: [
-    { key: "Storer 1989", text: "Storer BE. Design and analysis of phase I clinical trials. Biometrics. 1989;45(3):925-937.", doi: "10.2307/2531693" },
-    { key: "O'Quigley, Pepe & Fisher 1990", text: "O'Quigley J, Pepe M, Fisher L. Continual reassessment method: a practical design for phase 1 clinical trials in cancer. Biometrics. 1990;46(1):33-48.", doi: "10.2307/2531628" },
-    { key: "Lee & Cheung 2009", text: "Lee SM, Cheung YK. Model calibration in the continual reassessment method. Clinical Trials. 2009;6(3):227-238.", doi: "10.1177/1740774509105076" },
-    { key: "Liu & Yuan 2015", text: "Liu S, Yuan Y. Bayesian optimal interval designs for phase I clinical trials. Journal of the Royal Statistical Society, Series C (Applied Statistics). 2015;64(3):507-523.", doi: "10.1111/rssc.12089" },
+    STORER_1989,
+    OQUIGLEY_PEPE_FISHER_1990,
+    LEE_CHEUNG_2009,
+    LIU_YUAN_2015,
   ],
   cautions: [
     "One scenario does not choose a design: compare the designs under several scenarios, including one where every dose is too toxic and one where every dose is safe.",

@@ -29,6 +29,7 @@ import { z } from "zod";
 import type { Design } from "./design.js";
 import type { Section } from "../report/document.js";
 import { binomialPmf } from "../stats/binomial.js";
+import { STORER_1989 } from "./shared/doseFindingReferences.js";
 
 export const MAX_DOSES = 12;
 const COHORT = 3;
@@ -335,7 +336,7 @@ export const threePlusThree: Design<ThreePlusThreeInput, ThreePlusThreeResult> =
     `If the true DLT probabilities at ${input.doses.join(", ")} are ${input.dltProbabilities.join(", ")}, how often does the 3+3 design declare each dose the MTD${input.mtdRule === "next-lower-dose-with-six" ? " (with 6 patients required at the MTD)" : ""}, and how many patients and DLTs should be expected?`,
   document: documentThreePlusThree,
   references: [
-    { key: "Storer 1989", text: "Storer BE. Design and analysis of phase I clinical trials. Biometrics. 1989;45(3):925-937.", doi: "10.2307/2531693" },
+    STORER_1989,
     { key: "Le Tourneau, Lee & Siu 2009", text: "Le Tourneau C, Lee JJ, Siu LL. Dose escalation methods in phase I cancer clinical trials. Journal of the National Cancer Institute. 2009;101(10):708-720.", doi: "10.1093/jnci/djp079" },
     { key: "Lin & Shih 2001", text: "Lin Y, Shih WJ. Statistical properties of the traditional algorithm-based designs for phase I cancer clinical trials. Biostatistics. 2001;2(2):203-215.", doi: "10.1093/biostatistics/2.2.203" },
   ],

@@ -18,7 +18,7 @@
  */
 import { z } from "zod";
 import { InfeasibleDesignError } from "../design.js";
-import type { Block, Cell, Section } from "../../report/document.js";
+import type { Block, Cell, Column, Fact, Section } from "../../report/document.js";
 import { type RandomSource, createRandom } from "../../stats/random.js";
 
 export const MAX_DOSES = 10;
@@ -43,6 +43,12 @@ export const doseFindingFields = {
   maxSampleSize: z.number().int().min(1).max(MAX_SAMPLE_SIZE).default(30)
     .describe(`Maximum number of patients; the trial ends when it is reached (1 to ${MAX_SAMPLE_SIZE}).`),
 };
+
+/** What a design that simulates or decides from data is asked to do; `nextDose` says what the next-dose use gives. */
+export function useField(nextDose: string) {
+  return z.enum(["plan", "next-dose"]).default("plan")
+    .describe(`plan: simulate trials under scenarios to get operating characteristics. next-dose: ${nextDose}`);
+}
 
 export const scenarioSchema = z.strictObject({
   name: z.string().trim().min(1).max(60).describe("A short name for the scenario, e.g. \"MTD at dose 3\"."),
@@ -111,6 +117,28 @@ export function checkObservedData(data: DoseData[] | undefined, doseCount: numbe
   data.forEach((d, i) => {
     if (d.dlts > d.patients) issue([field, i, "dlts"], `Dose ${i + 1} has ${d.dlts} patients with a DLT but only ${d.patients} treated.`);
   });
+}
+
+/**
+ * Checks the scenarios and data given, and that the chosen use has what it
+ * needs; `nextDoseAnswer` names what the next-dose use gives ("decision").
+ */
+export function checkUseInputs(
+  v: { use: "plan" | "next-dose"; scenarios?: Scenario[] | undefined; data?: DoseData[] | undefined },
+  doseCount: number,
+  issue: Issue,
+  nextDoseAnswer: string,
+): void {
+  checkScenarios(v.scenarios, doseCount, issue);
+  checkObservedData(v.data, doseCount, issue);
+  if (v.use === "plan" && !v.scenarios) issue(["scenarios"], "Planning needs at least one scenario of true DLT probabilities.");
+  if (v.use === "next-dose" && !v.data) issue(["data"], `The next-dose ${nextDoseAnswer} needs the data so far: patients and DLTs at each dose.`);
+}
+
+/** Patients and DLTs per dose of the data so far, and the patients in all. */
+export function observedCounts(data: DoseData[]): { patients: number[]; dlts: number[]; total: number } {
+  const patients = data.map((d) => d.patients);
+  return { patients, dlts: data.map((d) => d.dlts), total: patients.reduce((a, b) => a + b, 0) };
 }
 
 /**
@@ -230,6 +258,27 @@ export function simulateScenarios(scenarios: Scenario[], target: number, trials:
   return scenarios.map((s, i) => simulateScenario(s, target, trials, scenarioSeed(seed, i), run));
 }
 
+/** The fields of a simulated plan that set its work and its streams. */
+interface SimulationPlan {
+  doses: string[];
+  target: number;
+  cohortSize: number;
+  maxSampleSize: number;
+  scenarios?: Scenario[] | undefined;
+  trials: number;
+  seed: number;
+}
+
+/**
+ * Checks the work of a plan against the design's limit, then simulates every
+ * scenario; the runner is made only once the plan is known to fit.
+ */
+export function simulatePlan(design: string, v: SimulationPlan, limit: number, makeRunner: () => TrialRunner): OperatingCharacteristics[] {
+  const scenarios = v.scenarios!;
+  assertSimulationBudget(design, { trials: v.trials, scenarios: scenarios.length, maxSampleSize: v.maxSampleSize, cohortSize: v.cohortSize, doses: v.doses.length }, limit);
+  return simulateScenarios(scenarios, v.target, v.trials, v.seed, makeRunner());
+}
+
 /** Treats a cohort at a dose, drawing each patient's DLT from the true probability. */
 export function treatCohort(dose: number, size: number, truth: readonly number[], random: RandomSource, patients: Int32Array, dlts: Int32Array): void {
   const p = truth[dose]!;
@@ -241,6 +290,30 @@ export function treatCohort(dose: number, size: number, truth: readonly number[]
 
 const percent = (x: number): number => x * 100;
 
+/** Columns of the whole-trial figures, in the order of `summaryCells`. */
+export const summaryColumns: Column[] = [
+  { key: "correct", label: "Correct selection (%)", digits: 1 },
+  { key: "none", label: "No dose selected (%)", digits: 1 },
+  { key: "patients", label: "Mean patients", digits: 1 },
+  { key: "dlts", label: "Mean DLTs", digits: 2 },
+  { key: "above", label: "Treated above true MTD (%)", digits: 1 },
+  { key: "overTarget", label: "Treated at doses above target (%)", digits: 1 },
+];
+
+/** Whole-trial figures of one design under one scenario, percentages as 0-100. */
+export function summaryCells(oc: OperatingCharacteristics): Cell[] {
+  return [percent(oc.correctSelectionProbability), percent(oc.noSelectionProbability), oc.meanTotalPatients, oc.meanTotalDlts, percent(oc.treatedAboveMtd), percent(oc.treatedAboveTarget)];
+}
+
+/** Facts of the cohort schedule, as every simulated dose-finding report lists them. */
+export function scheduleFacts(v: { doses: string[]; cohortSize: number; startDose: number; maxSampleSize: number }): Fact[] {
+  return [
+    { label: "Cohort size", value: v.cohortSize },
+    { label: "Start dose", value: v.doses[v.startDose - 1]! },
+    { label: "Maximum sample size", value: v.maxSampleSize },
+  ];
+}
+
 /** Report blocks for simulated operating characteristics: a summary, one table and chart per scenario. */
 export function operatingCharacteristicsSection(doses: string[], ocs: OperatingCharacteristics[], design: string): Section {
   const trials = ocs[0]?.trials ?? 0;
@@ -250,18 +323,8 @@ export function operatingCharacteristicsSection(doses: string[], ocs: OperatingC
       table: {
         id: "scenario-summary",
         caption: `Operating characteristics of ${design}, ${trials} simulated trials per scenario`,
-        columns: [
-          { key: "scenario", label: "Scenario" },
-          { key: "mtd", label: "True MTD" },
-          { key: "correct", label: "Correct selection (%)", digits: 1 },
-          { key: "none", label: "No dose selected (%)", digits: 1 },
-          { key: "patients", label: "Mean patients", digits: 1 },
-          { key: "dlts", label: "Mean DLTs", digits: 2 },
-          { key: "above", label: "Treated above true MTD (%)", digits: 1 },
-          { key: "overTarget", label: "Treated at doses above target (%)", digits: 1 },
-        ],
-        rows: ocs.map((oc) => [oc.scenario, doses[oc.trueMtd]!, percent(oc.correctSelectionProbability), percent(oc.noSelectionProbability),
-          oc.meanTotalPatients, oc.meanTotalDlts, percent(oc.treatedAboveMtd), percent(oc.treatedAboveTarget)]),
+        columns: [{ key: "scenario", label: "Scenario" }, { key: "mtd", label: "True MTD" }, ...summaryColumns],
+        rows: ocs.map((oc) => [oc.scenario, doses[oc.trueMtd]!, ...summaryCells(oc)]),
         note: "The true MTD is the dose whose true DLT probability is closest to the target. Percentages of patients are pooled over all simulated trials.",
       },
     },
@@ -306,6 +369,15 @@ export function selectionChart(id: string, title: string, doses: string[], serie
     })),
   };
 }
+
+/** The protocol's sentence on the simulated operating characteristics, with a leading space. */
+export function simulationProtocolText(doses: string[], trials: number, seed: number, ocs: OperatingCharacteristics[]): string {
+  return ` In ${trials} simulated trials per scenario (seed ${seed}), ` + ocs.map((oc) =>
+    `under the scenario "${oc.scenario}" (true MTD ${doses[oc.trueMtd]}) the design selects ${selectionText(doses, oc)}, treating on average ${oc.meanTotalPatients.toFixed(1)} patients, ${percent(oc.treatedAboveMtd).toFixed(1)}% of them above the true MTD`).join("; ") + ".";
+}
+
+/** The caution every simulated dose-finding plan carries. */
+export const SIMULATION_CAUTION = "Operating characteristics are estimated from simulated trials: each percentage carries Monte Carlo error (about ±3 percentage points at 1,000 trials). Use more trials for a protocol.";
 
 /** "dose 1 (10 mg) 12.3%, ..." for protocol text. */
 export function selectionText(doses: string[], oc: OperatingCharacteristics): string {
