@@ -187,7 +187,7 @@ function radioGroup(key: string, choices: Choice[], optional: boolean): { elemen
 function listWidget(key: string, label: string, schema: JsonSchema, optional: boolean): Widget {
   const itemSchema = schema.items ?? {};
   const list = h("ol", { class: "list-items" });
-  const add = h("button", { type: "button", class: "small" }, `Add ${typeOf(itemSchema) === "string" ? "a label" : "a value"}`);
+  const add = h("button", { type: "button", class: "small", "data-action": "add-item" }, `Add ${typeOf(itemSchema) === "string" ? "a label" : "a value"}`);
   const element = h("div", { class: "list-editor" }, list, add);
   let rows: Array<{ item: HTMLLIElement; read(): Reading; write(v: unknown): void; control: HTMLElement }> = [];
   const renumber = (): void => {
@@ -249,7 +249,7 @@ function tableWidget(key: string, label: string, schema: JsonSchema, optional: b
   const required = new Set(itemSchema.required ?? []);
   const body = h("tbody");
   const head = h("thead", {}, h("tr", {}, h("th", { scope: "col" }, "#"), ...columns.map(([name, s]) => h("th", { scope: "col", title: s.description ?? "" }, s.title ?? humanize(name))), h("th", { scope: "col" }, h("span", { class: "visually-hidden" }, "Actions"))));
-  const add = h("button", { type: "button", class: "small" }, "Add a row");
+  const add = h("button", { type: "button", class: "small", "data-action": "add-row" }, "Add a row");
   const legend = h("dl", { class: "column-help" }, ...columns.flatMap(([name, s]) => (s.description ? [h("dt", {}, s.title ?? humanize(name)), h("dd", {}, s.description)] : [])));
   const table = h("table", {}, head, body);
   const empty = h("p", { class: "note" }, "No rows yet.");

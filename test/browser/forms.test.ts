@@ -217,6 +217,22 @@ describe("validation errors", () => {
   });
 });
 
+describe("phone width", () => {
+  it("lays every page out without sideways scrolling at 390 px", async () => {
+    const phone = await browser.newContext({ viewport: { width: 390, height: 844 }, isMobile: true, hasTouch: true });
+    const page = await phone.newPage();
+    page.on("pageerror", (e) => pageErrors.push(e.message));
+    for (const path of ["/", "/design?id=two-means", ...(catalogIds.includes("boin") ? ["/design?id=boin"] : [])]) {
+      await page.goto(`${base}${path}`);
+      await page.waitForSelector(path === "/" ? ".design-card" : "#preview-head .key-facts");
+      // Wide tables scroll inside their own box; the page itself must fit the screen.
+      const width = await page.evaluate(() => document.documentElement.scrollWidth);
+      expect(width, path).toBeLessThanOrEqual(390);
+    }
+    await phone.close();
+  });
+});
+
 describe("contrast", () => {
   it("keeps text at WCAG AA contrast (4.5:1) against its background", async () => {
     const page = await newPage();
@@ -286,6 +302,26 @@ describe("keyboard alone", () => {
     await page.keyboard.press("Space");
     await page.waitForFunction(() => document.getElementById("status")?.textContent === "Link copied.");
     expect(await page.evaluate(() => navigator.clipboard.readText())).toBe(await page.inputValue("#permalink"));
+    await page.close();
+  });
+
+  it("edits a table of observed data per dose without a pointer", async (ctx) => {
+    if (!catalogIds.includes("boin")) ctx.skip(true, "boin is not in the catalog");
+    const page = await newPage();
+    await page.goto(`${base}/design?id=boin`);
+    await page.waitForSelector("#preview-head .key-facts");
+    await page.focus("#f-seed");
+    await tabTo(page, '[data-field="data"] button[data-action="add-row"]', 10);
+    await page.keyboard.press("Enter");
+    expect(await page.evaluate(() => document.activeElement?.id)).toBe("f-data-0-patients");
+    await page.keyboard.type("3");
+    await page.keyboard.press("Tab");
+    expect(await page.evaluate(() => document.activeElement?.id)).toBe("f-data-0-dlts");
+    await page.keyboard.type("1");
+    await page.keyboard.press("Tab");
+    expect(await page.evaluate(() => document.activeElement?.getAttribute("aria-label"))).toBe("Remove row 1");
+    await page.keyboard.press("Enter");
+    expect(await page.$$eval('[data-field="data"] tbody tr', (rows) => rows.length)).toBe(0);
     await page.close();
   });
 
