@@ -22,7 +22,7 @@ async function settle(page: Page): Promise<void> {
   await page.waitForFunction(() => {
     const status = document.getElementById("status")?.textContent ?? "";
     return !/Computing|Freezing/.test(status) && !document.querySelector(".loading");
-  }, undefined, { timeout: 30000 });
+  }, undefined, { timeout: 60000 });
 }
 
 mkdirSync(out, { recursive: true });
@@ -43,11 +43,11 @@ try {
     await page.screenshot({ path: `${out}/start-search-empty-${viewport.name}.png` });
     for (const { id } of catalog.designs) {
       await page.goto(`${worker.url}/design?id=${id}`);
-      await page.waitForSelector("#preview-head .key-facts, #problem:not([hidden])", { timeout: 30000 });
+      await page.waitForSelector("#preview-head .key-facts, #problem:not([hidden])", { timeout: 60000 });
       await settle(page);
       await page.screenshot({ path: `${out}/design-${id}-${viewport.name}.png`, fullPage: true });
       await page.click("#freeze-button");
-      await page.waitForSelector("#frozen .frozen", { timeout: 30000 });
+      await page.waitForSelector("#frozen .frozen", { timeout: 60000 });
       await page.screenshot({ path: `${out}/design-${id}-frozen-${viewport.name}.png`, fullPage: true });
       const link = await page.inputValue("#permalink");
       await page.goto(link);
@@ -63,7 +63,7 @@ try {
       await page.goto(`${worker.url}/design?id=simon-two-stage`);
       await page.waitForSelector("#preview-head .key-facts");
       await page.fill("#f-maxN", "8");
-      await page.waitForSelector("#problem:not([hidden])", { timeout: 30000 });
+      await page.waitForSelector("#problem:not([hidden])", { timeout: 60000 });
       await page.screenshot({ path: `${out}/design-simon-two-stage-infeasible-${viewport.name}.png` });
     }
     await page.goto(`${worker.url}/design?id=no-such-design`);
