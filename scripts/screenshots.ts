@@ -33,6 +33,7 @@ try {
   for (const viewport of VIEWPORTS) {
     const context = await browser.newContext({ viewport: { width: viewport.width, height: viewport.height }, deviceScaleFactor: 1 });
     const page = await context.newPage();
+    page.setDefaultTimeout(60000);
     page.on("pageerror", (e) => console.error(`page error: ${e.message}`));
     // The error, infeasible and unknown-design shots answer 400, 422 and 404 on purpose; anything else is worth a look.
     page.on("console", (m) => { if (m.type() === "error" && !/status of (400|404|422)/.test(m.text())) console.error(`console: ${m.text()}`); });
