@@ -47,6 +47,7 @@ import {
   futilityBoundary, posteriorBeyond, posteriorBoundary, predictiveTable, runsOf,
 } from "./shared/bayesianRules.js";
 import { type ThresholdSearch, searchThresholds } from "./shared/predictiveSearch.js";
+import { designSection, protocolSection } from "./shared/reportSections.js";
 
 export const MAX_PATIENTS = 300;
 const MAX_RATES = 30;
@@ -421,43 +422,38 @@ function documentBayesianMonitoring(entered: BayesianMonitoringInput, r: Bayesia
       })();
 
   return [
-    {
-      id: "design",
-      title: "Design",
-      blocks: [
-        { kind: "facts", facts },
-        {
-          kind: "table",
-          table: {
-            id: "stopping-rules",
-            caption: posterior ? `Stopping rules, checked ${scheduleText(input)}` : `Futility rules, checked ${scheduleText(input).replace(/ up to .*$/, "")} until patient ${input.maxN - 1}, and the final rule`,
-            columns: [
-              { key: "rule", label: "Rule" },
-              { key: "events", label: event === "toxicity" ? "Toxicities" : "Responses" },
-              { key: "from", label: "From patient" },
-              { key: "to", label: "To patient" },
-            ],
-            rows: runRows,
-            note: !firstRun
-              ? `No interim count stops the trial: the futility threshold is too low to act before patient ${input.maxN}.`
-              : r.boundary[0]?.stopAt === null ? `No count stops the trial before patient ${firstRun.fromPatients}.` : undefined,
-          },
+    designSection(facts, [
+      {
+        kind: "table",
+        table: {
+          id: "stopping-rules",
+          caption: posterior ? `Stopping rules, checked ${scheduleText(input)}` : `Futility rules, checked ${scheduleText(input).replace(/ up to .*$/, "")} until patient ${input.maxN - 1}, and the final rule`,
+          columns: [
+            { key: "rule", label: "Rule" },
+            { key: "events", label: event === "toxicity" ? "Toxicities" : "Responses" },
+            { key: "from", label: "From patient" },
+            { key: "to", label: "To patient" },
+          ],
+          rows: runRows,
+          note: !firstRun
+            ? `No interim count stops the trial: the futility threshold is too low to act before patient ${input.maxN}.`
+            : r.boundary[0]?.stopAt === null ? `No count stops the trial before patient ${firstRun.fromPatients}.` : undefined,
         },
-        {
-          kind: "table",
-          table: {
-            id: "boundary",
-            caption: "Boundary at each check",
-            columns: [
-              { key: "patients", label: "Patients" },
-              { key: "stop", label: r.direction === "at-least" ? `Stop if ${event === "toxicity" ? "toxicities" : "responses"} at least` : "Stop if responses at most" },
-            ],
-            rows: r.boundary.map((c) => [c.patients, c.stopAt]),
-            note: "— means no count stops the trial at that check.",
-          },
+      },
+      {
+        kind: "table",
+        table: {
+          id: "boundary",
+          caption: "Boundary at each check",
+          columns: [
+            { key: "patients", label: "Patients" },
+            { key: "stop", label: r.direction === "at-least" ? `Stop if ${event === "toxicity" ? "toxicities" : "responses"} at least` : "Stop if responses at most" },
+          ],
+          rows: r.boundary.map((c) => [c.patients, c.stopAt]),
+          note: "— means no count stops the trial at that check.",
         },
-      ],
-    },
+      },
+    ]),
     ...(r.search ? [searchSection(input, r.search)] : []),
     {
       id: "operating-characteristics",
@@ -491,7 +487,7 @@ function documentBayesianMonitoring(entered: BayesianMonitoringInput, r: Bayesia
         },
       ],
     },
-    { id: "protocol", title: "Statistical paragraph for the protocol", blocks: [{ kind: "protocol", text: protocol }] },
+    protocolSection(protocol),
   ];
 }
 

@@ -41,6 +41,7 @@ import {
   treatCohort, type TrialEnd, useField,
 } from "./shared/doseFinding.js";
 import { LIU_YUAN_2015 } from "./shared/doseFindingReferences.js";
+import { designSection, protocolSection } from "./shared/reportSections.js";
 
 /** Trials × scenarios × decisions × doses one request may simulate (a few seconds on one core). */
 export const BOIN_WORK_LIMIT = 30_000_000;
@@ -260,39 +261,31 @@ function documentBoin(input: BoinInput, r: BoinResult): Section[] {
   const doses = input.doses;
   const b = r.boundaries;
   const sections: Section[] = [
-    {
-      id: "design",
-      title: "Design",
-      blocks: [
-        {
-          kind: "facts",
-          facts: [
-            { label: "Escalation boundary λe", value: b.escalation, digits: 3, key: true, note: "escalate when the observed DLT rate at the current dose is at or below it" },
-            { label: "De-escalation boundary λd", value: b.deescalation, digits: 3, key: true, note: "de-escalate when the observed DLT rate is at or above it" },
-            { label: "Target DLT rate", value: input.target },
-            { label: "Underdosing limit φ1", value: input.underdosingLimit, digits: 3 },
-            { label: "Overdosing limit φ2", value: input.overdosingLimit, digits: 3 },
-            { label: "Elimination rule", value: `P(DLT rate > ${input.target}) > ${input.eliminationCutoff} with at least ${input.eliminationMinPatients} patients` },
-            ...scheduleFacts(input),
+    designSection([
+      { label: "Escalation boundary λe", value: b.escalation, digits: 3, key: true, note: "escalate when the observed DLT rate at the current dose is at or below it" },
+      { label: "De-escalation boundary λd", value: b.deescalation, digits: 3, key: true, note: "de-escalate when the observed DLT rate is at or above it" },
+      { label: "Target DLT rate", value: input.target },
+      { label: "Underdosing limit φ1", value: input.underdosingLimit, digits: 3 },
+      { label: "Overdosing limit φ2", value: input.overdosingLimit, digits: 3 },
+      { label: "Elimination rule", value: `P(DLT rate > ${input.target}) > ${input.eliminationCutoff} with at least ${input.eliminationMinPatients} patients` },
+      ...scheduleFacts(input),
+    ], [
+      {
+        kind: "table",
+        table: {
+          id: "decision-table",
+          caption: "Decision table: patients with a DLT at the current dose, by the number treated there",
+          columns: [
+            { key: "patients", label: "Patients treated at the current dose" },
+            { key: "escalate", label: "Escalate if DLTs ≤" },
+            { key: "deescalate", label: "De-escalate if DLTs ≥" },
+            { key: "eliminate", label: "Eliminate this and higher doses if DLTs ≥" },
           ],
+          rows: r.decisionTable.map((row) => [row.patients, row.escalateAtMost, row.deescalateAtLeast, row.eliminateAtLeast]),
+          note: "Otherwise stay at the current dose. — means no number of DLTs triggers the action. Escalation never enters an eliminated dose, and at the highest dose it means staying.",
         },
-        {
-          kind: "table",
-          table: {
-            id: "decision-table",
-            caption: "Decision table: patients with a DLT at the current dose, by the number treated there",
-            columns: [
-              { key: "patients", label: "Patients treated at the current dose" },
-              { key: "escalate", label: "Escalate if DLTs ≤" },
-              { key: "deescalate", label: "De-escalate if DLTs ≥" },
-              { key: "eliminate", label: "Eliminate this and higher doses if DLTs ≥" },
-            ],
-            rows: r.decisionTable.map((row) => [row.patients, row.escalateAtMost, row.deescalateAtLeast, row.eliminateAtLeast]),
-            note: "Otherwise stay at the current dose. — means no number of DLTs triggers the action. Escalation never enters an eliminated dose, and at the highest dose it means staying.",
-          },
-        },
-      ],
-    },
+      },
+    ]),
   ];
   if (r.nextDose) {
     const nd = r.nextDose;
@@ -332,7 +325,7 @@ function documentBoin(input: BoinInput, r: BoinResult): Section[] {
     });
   }
   if (r.operatingCharacteristics) sections.push(operatingCharacteristicsSection(doses, r.operatingCharacteristics, "BOIN"));
-  sections.push({ id: "protocol", title: "Statistical paragraph for the protocol", blocks: [{ kind: "protocol", text: protocolText(input, r) }] });
+  sections.push(protocolSection(protocolText(input, r)));
   return sections;
 }
 

@@ -40,6 +40,7 @@ import {
 import { LEE_CHEUNG_2009, OQUIGLEY_PEPE_FISHER_1990 } from "./shared/doseFindingReferences.js";
 import { type CrmModel, calibrateSkeleton, doseConstants, doseProbability, logisticCeiling } from "./shared/crmModel.js";
 import { CrmFastPosterior, type CrmPosteriorSummary, crmPosterior } from "./shared/crmPosterior.js";
+import { designSection, protocolSection } from "./shared/reportSections.js";
 
 /** Trials × scenarios × decisions × doses one request may simulate (a few seconds on one core). */
 export const CRM_WORK_LIMIT = 2_000_000;
@@ -195,54 +196,46 @@ function skeletonText(input: CrmInput, r: CrmResult): string {
 function documentCrm(input: CrmInput, r: CrmResult): Section[] {
   const doses = input.doses;
   const sections: Section[] = [
-    {
-      id: "design",
-      title: "Design",
-      blocks: [
-        {
-          kind: "facts",
-          facts: [
-            { label: "Model", value: input.model === "power" ? "power (empiric)" : `one-parameter logistic, intercept ${input.logisticIntercept}`, key: true },
-            { label: "Target DLT rate", value: input.target, key: true },
-            { label: "Prior on a", value: `normal, mean 0, variance ${input.priorVariance}` },
-            { label: "Skeleton", value: r.skeleton.map(f3).join(", "), key: true, note: r.skeletonCalibrated ? `calibrated: indifference interval ${f3(input.target - input.skeletonHalfWidth)} to ${f3(input.target + input.skeletonHalfWidth)}, prior MTD ${doses[input.priorMtd - 1]}` : "given" },
-            { label: "Dose estimate", value: input.doseEstimate === "posterior-mean" ? "posterior mean of the DLT probability" : "model at the posterior mean of a (plug-in)" },
-            ...scheduleFacts(input),
-            { label: "Safety stop", value: `P(DLT rate at ${doses[0]} > ${input.target}) > ${input.safetyThreshold}` },
+    designSection([
+      { label: "Model", value: input.model === "power" ? "power (empiric)" : `one-parameter logistic, intercept ${input.logisticIntercept}`, key: true },
+      { label: "Target DLT rate", value: input.target, key: true },
+      { label: "Prior on a", value: `normal, mean 0, variance ${input.priorVariance}` },
+      { label: "Skeleton", value: r.skeleton.map(f3).join(", "), key: true, note: r.skeletonCalibrated ? `calibrated: indifference interval ${f3(input.target - input.skeletonHalfWidth)} to ${f3(input.target + input.skeletonHalfWidth)}, prior MTD ${doses[input.priorMtd - 1]}` : "given" },
+      { label: "Dose estimate", value: input.doseEstimate === "posterior-mean" ? "posterior mean of the DLT probability" : "model at the posterior mean of a (plug-in)" },
+      ...scheduleFacts(input),
+      { label: "Safety stop", value: `P(DLT rate at ${doses[0]} > ${input.target}) > ${input.safetyThreshold}` },
+    ], [
+      {
+        kind: "table",
+        table: {
+          id: "skeleton",
+          caption: "Skeleton: prior guess of the DLT probability at each dose",
+          columns: [
+            { key: "dose", label: "Dose" },
+            { key: "skeleton", label: "Skeleton", digits: 4 },
+            ...(r.logisticDoseLabels ? [{ key: "label", label: "Logistic dose label x", digits: 4 }] : []),
+          ],
+          rows: doses.map((d, i) => [d, r.skeleton[i]!, ...(r.logisticDoseLabels ? [r.logisticDoseLabels[i]!] : [])]),
+        },
+      },
+      {
+        kind: "table",
+        table: {
+          id: "decision-rules",
+          caption: "Decision rules after each cohort",
+          columns: [{ key: "when", label: "When" }, { key: "action", label: "Action" }],
+          rows: [
+            [`P(DLT rate at ${doses[0]} > ${input.target} | data) > ${input.safetyThreshold}`, "Stop the trial; no dose is selected"],
+            ["Otherwise", `Treat the next cohort at the dose whose estimated DLT probability is closest to ${input.target}, never more than one dose above the highest dose tried`],
+            [`${input.maxSampleSize} patients treated`, "Stop; the MTD is the dose that would be recommended next"],
           ],
         },
-        {
-          kind: "table",
-          table: {
-            id: "skeleton",
-            caption: "Skeleton: prior guess of the DLT probability at each dose",
-            columns: [
-              { key: "dose", label: "Dose" },
-              { key: "skeleton", label: "Skeleton", digits: 4 },
-              ...(r.logisticDoseLabels ? [{ key: "label", label: "Logistic dose label x", digits: 4 }] : []),
-            ],
-            rows: doses.map((d, i) => [d, r.skeleton[i]!, ...(r.logisticDoseLabels ? [r.logisticDoseLabels[i]!] : [])]),
-          },
-        },
-        {
-          kind: "table",
-          table: {
-            id: "decision-rules",
-            caption: "Decision rules after each cohort",
-            columns: [{ key: "when", label: "When" }, { key: "action", label: "Action" }],
-            rows: [
-              [`P(DLT rate at ${doses[0]} > ${input.target} | data) > ${input.safetyThreshold}`, "Stop the trial; no dose is selected"],
-              ["Otherwise", `Treat the next cohort at the dose whose estimated DLT probability is closest to ${input.target}, never more than one dose above the highest dose tried`],
-              [`${input.maxSampleSize} patients treated`, "Stop; the MTD is the dose that would be recommended next"],
-            ],
-          },
-        },
-      ],
-    },
+      },
+    ]),
   ];
   if (r.nextDose) sections.push(nextDoseSection(input, r.nextDose));
   if (r.operatingCharacteristics) sections.push(operatingCharacteristicsSection(doses, r.operatingCharacteristics, "the CRM"));
-  sections.push({ id: "protocol", title: "Statistical paragraph for the protocol", blocks: [{ kind: "protocol", text: protocolText(input, r) }] });
+  sections.push(protocolSection(protocolText(input, r)));
   return sections;
 }
 

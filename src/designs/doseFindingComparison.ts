@@ -31,6 +31,7 @@ import {
   issueReporter, scenarioSchema, scenarioSeed, selectionChart, simulateScenario, simulationFields, summaryCells, summaryColumns, trueMtd,
 } from "./shared/doseFinding.js";
 import { LEE_CHEUNG_2009, LIU_YUAN_2015, OQUIGLEY_PEPE_FISHER_1990, STORER_1989 } from "./shared/doseFindingReferences.js";
+import { protocolSection } from "./shared/reportSections.js";
 
 const { scenarios: _unused, ...simulationControls } = simulationFields;
 
@@ -237,7 +238,7 @@ function documentComparison(v: DoseFindingComparisonInput, r: DoseFindingCompari
         },
       ],
     },
-    { id: "protocol", title: "Statistical paragraph for the protocol", blocks: [{ kind: "protocol", text: protocol }] },
+    protocolSection(protocol),
   ];
 }
 

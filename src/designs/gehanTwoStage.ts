@@ -22,6 +22,7 @@ import { type Design, InfeasibleDesignError } from "./design.js";
 import type { Section } from "../report/document.js";
 import { betaQuantile } from "../stats/beta.js";
 import { binomialPmfArray } from "../stats/binomial.js";
+import { designSection, protocolSection, responseRateCurveSection } from "./shared/reportSections.js";
 
 /** Stage-1 sizes beyond this are refused; the input bounds (p1 ≥ 0.01, beta ≥ 0.001) need at most 688. */
 export const GEHAN_MAX_N1 = 2000;
@@ -115,59 +116,41 @@ function documentGehan(input: GehanTwoStageInput, res: GehanTwoStageResult): Sec
     `If at least one responds, further patients are enrolled, the number depending on the stage-1 responses as tabulated, so that the standard error of the final estimate of the response rate is at most ${input.targetSE}, computed from ${rateText}. ` +
     `At most ${res.largestTotalSize} patients are enrolled in all; if the true rate is ${input.p1}, the expected number is ${res.expectedSampleSizeAtP1.toFixed(1)}.`;
   return [
-    {
-      id: "design",
-      title: "Design",
-      blocks: [
-        {
-          kind: "facts",
-          facts: [
-            { label: "Stage 1 patients (n1)", value: res.n1, key: true },
-            { label: "P(no response in stage 1) at p1", value: res.probabilityOfEarlyTerminationAtP1, digits: 4, key: true },
-            { label: "Largest total size", value: res.largestTotalSize, key: true },
-            { label: "Expected total size at p1", value: res.expectedSampleSizeAtP1, digits: 1 },
+    designSection([
+      { label: "Stage 1 patients (n1)", value: res.n1, key: true },
+      { label: "P(no response in stage 1) at p1", value: res.probabilityOfEarlyTerminationAtP1, digits: 4, key: true },
+      { label: "Largest total size", value: res.largestTotalSize, key: true },
+      { label: "Expected total size at p1", value: res.expectedSampleSizeAtP1, digits: 1 },
+    ], [
+      {
+        kind: "table",
+        table: {
+          id: "stage-two-sizes",
+          caption: `After stage 1 (${res.n1} patients): stop if no response; otherwise enrol the stage-2 patients shown`,
+          columns: [
+            { key: "x1", label: "Stage-1 responses" },
+            { key: "n2", label: "Stage-2 patients" },
+            { key: "total", label: "Total patients" },
+            { key: "rate", label: "Rate used for the standard error", digits: 3 },
+            { key: "se", label: "Standard error at that rate", digits: 4 },
+            { key: "prob", label: "P(this many) at p1", digits: 4 },
           ],
+          rows: [
+            [0, 0, res.n1, null, null, res.probabilityOfEarlyTerminationAtP1],
+            ...res.rows.map((r) => [r.stage1Responses, r.stage2Size, r.totalSize, r.rateForStandardError, r.standardError, r.probabilityAtP1]),
+          ],
+          note: "With no stage-1 response the trial stops and no standard error target applies.",
         },
-        {
-          kind: "table",
-          table: {
-            id: "stage-two-sizes",
-            caption: `After stage 1 (${res.n1} patients): stop if no response; otherwise enrol the stage-2 patients shown`,
-            columns: [
-              { key: "x1", label: "Stage-1 responses" },
-              { key: "n2", label: "Stage-2 patients" },
-              { key: "total", label: "Total patients" },
-              { key: "rate", label: "Rate used for the standard error", digits: 3 },
-              { key: "se", label: "Standard error at that rate", digits: 4 },
-              { key: "prob", label: "P(this many) at p1", digits: 4 },
-            ],
-            rows: [
-              [0, 0, res.n1, null, null, res.probabilityOfEarlyTerminationAtP1],
-              ...res.rows.map((r) => [r.stage1Responses, r.stage2Size, r.totalSize, r.rateForStandardError, r.standardError, r.probabilityAtP1]),
-            ],
-            note: "With no stage-1 response the trial stops and no standard error target applies.",
-          },
-        },
-      ],
-    },
-    {
-      id: "operating-characteristics",
-      title: "Operating characteristics",
-      blocks: [{
-        kind: "chart",
-        chart: {
-          id: "early-stop",
-          title: `Probability of stopping after stage 1 (no response among ${res.n1}) against the true response rate`,
-          xLabel: "True response rate",
-          yLabel: "P(stop after stage 1)",
-          xDomain: [0, 1],
-          yDomain: [0, 1],
-          series: [{ name: "P(stop after stage 1)", points: res.stoppingCurve, style: "line" }],
-          markers: [{ axis: "x", value: input.p1, label: `p1 = ${input.p1}` }, { axis: "y", value: input.beta, label: `beta = ${input.beta}` }],
-        },
-      }],
-    },
-    { id: "protocol", title: "Statistical paragraph for the protocol", blocks: [{ kind: "protocol", text: protocol }] },
+      },
+    ]),
+    responseRateCurveSection({
+      id: "early-stop",
+      title: `Probability of stopping after stage 1 (no response among ${res.n1}) against the true response rate`,
+      yLabel: "P(stop after stage 1)",
+      points: res.stoppingCurve,
+      markers: [{ axis: "x", value: input.p1, label: `p1 = ${input.p1}` }, { axis: "y", value: input.beta, label: `beta = ${input.beta}` }],
+    }),
+    protocolSection(protocol),
   ];
 }
 

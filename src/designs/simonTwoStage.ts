@@ -19,13 +19,14 @@
  */
 import { z } from "zod";
 import { type Design, InfeasibleDesignError } from "./design.js";
-import type { Block, Section } from "../report/document.js";
+import type { Block, Fact, Section } from "../report/document.js";
 import { checkResponseRates, responseRateFields } from "./shared/responseRates.js";
 import { type AdmissibleCandidate, searchSimon } from "./shared/simonSearch.js";
 import {
   TWO_STAGE_MAX_N, type TwoStagePoint, type TwoStageRule, type TwoStageSummary, evaluateTwoStage, rateGrid, summarizeTwoStage,
 } from "./shared/twoStage.js";
 import { describeTwoStage, twoStageChart, twoStageRuleTable } from "./shared/twoStageReport.js";
+import { designSection, protocolSection } from "./shared/reportSections.js";
 
 const SIMON_MAX_N = TWO_STAGE_MAX_N;
 
@@ -148,25 +149,20 @@ function designRow(label: string, d: TwoStageSummary, weights: string): Array<st
 function documentSimon(input: SimonTwoStageInput, res: SimonTwoStageResult): Section[] {
   const d = res.design;
   const which = res.mode === "evaluate" ? "given" : input.protocolDesign;
-  const blocks: Block[] = [
-    {
-      kind: "facts",
-      facts: [
-        { label: "Stage 1: patients (n1)", value: d.n1, key: true },
-        { label: "Stage 1: stop if responses ≤ (r1)", value: d.r1, key: true },
-        { label: "Total patients (n)", value: d.n, key: true },
-        { label: "Promising if responses > (r)", value: d.r, key: true },
-        { label: "Exact alpha (at p0)", value: d.alpha, digits: 4, key: true },
-        { label: "Exact power (at p1)", value: d.power, digits: 4, key: true },
-        { label: "Expected size at p0", value: d.expectedSampleSize0, digits: 2 },
-        { label: "Expected size at p1", value: d.expectedSampleSize1, digits: 2 },
-        { label: "Probability of early termination at p0", value: d.probabilityOfEarlyTermination0, digits: 4 },
-        { label: "Probability of early termination at p1", value: d.probabilityOfEarlyTermination1, digits: 4 },
-        ...(res.mode === "evaluate" ? [{ label: "Meets the alpha and power targets", value: res.meetsTargets ? "yes" : "no", key: true }] : []),
-      ],
-    },
-    { kind: "table", table: twoStageRuleTable(d) },
+  const facts: Fact[] = [
+    { label: "Stage 1: patients (n1)", value: d.n1, key: true },
+    { label: "Stage 1: stop if responses ≤ (r1)", value: d.r1, key: true },
+    { label: "Total patients (n)", value: d.n, key: true },
+    { label: "Promising if responses > (r)", value: d.r, key: true },
+    { label: "Exact alpha (at p0)", value: d.alpha, digits: 4, key: true },
+    { label: "Exact power (at p1)", value: d.power, digits: 4, key: true },
+    { label: "Expected size at p0", value: d.expectedSampleSize0, digits: 2 },
+    { label: "Expected size at p1", value: d.expectedSampleSize1, digits: 2 },
+    { label: "Probability of early termination at p0", value: d.probabilityOfEarlyTermination0, digits: 4 },
+    { label: "Probability of early termination at p1", value: d.probabilityOfEarlyTermination1, digits: 4 },
+    ...(res.mode === "evaluate" ? [{ label: "Meets the alpha and power targets", value: res.meetsTargets ? "yes" : "no", key: true }] : []),
   ];
+  const blocks: Block[] = [{ kind: "table", table: twoStageRuleTable(d) }];
   if (res.mode === "search") {
     const weight = (a: AdmissibleDesign): string => `${+a.lowestWeight.toFixed(3)}–${+a.highestWeight.toFixed(3)}`;
     const last = res.admissible.length - 1;
@@ -218,9 +214,9 @@ function documentSimon(input: SimonTwoStageInput, res: SimonTwoStageResult): Sec
     `Computed exactly from the binomial distribution, the probability of declaring the drug promising is ${d.alpha.toFixed(4)} when the true rate is ${input.p0} (one-sided alpha; target at most ${input.alpha}) and ${d.power.toFixed(4)} when it is ${input.p1} (power; target at least ${input.power}). ` +
     `If the true rate is ${input.p0}, the trial stops after stage 1 with probability ${d.probabilityOfEarlyTermination0.toFixed(3)} and the expected number of patients is ${d.expectedSampleSize0.toFixed(1)}; if it is ${input.p1}, these are ${d.probabilityOfEarlyTermination1.toFixed(3)} and ${d.expectedSampleSize1.toFixed(1)}.`;
   return [
-    { id: "design", title: "Design", blocks },
+    designSection(facts, blocks),
     { id: "operating-characteristics", title: "Operating characteristics", blocks: ocBlocks },
-    { id: "protocol", title: "Statistical paragraph for the protocol", blocks: [{ kind: "protocol", text: protocol }] },
+    protocolSection(protocol),
   ];
 }
 

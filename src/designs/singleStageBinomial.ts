@@ -21,6 +21,7 @@ import type { Section } from "../report/document.js";
 import { checkResponseRates, responseRateFields } from "./shared/responseRates.js";
 import { binomialUpperTails as upperTails, rateGrid } from "./shared/twoStage.js";
 import { smallestSizeForPower } from "./shared/powerCeiling.js";
+import { designSection, protocolSection, responseRateCurveSection } from "./shared/reportSections.js";
 
 /** Sizes beyond this are not searched (p0 and p1 a few points apart need thousands). */
 export const SINGLE_STAGE_MAX_N = 5000;
@@ -82,61 +83,43 @@ function documentSingleStage(input: SingleStageBinomialInput, res: SingleStageBi
     `computed exactly from the binomial distribution, the probability of declaring the drug promising is ${res.alpha.toFixed(4)} when the true rate is ${input.p0} (one-sided alpha; target at most ${input.alpha}) ` +
     `and ${res.power.toFixed(4)} when it is ${input.p1} (power; target at least ${input.power}).`;
   return [
-    {
-      id: "design",
-      title: "Design",
-      blocks: [
-        {
-          kind: "facts",
-          facts: [
-            { label: "Patients (n)", value: res.n, key: true },
-            { label: "Promising if responses ≥ (r)", value: res.r, key: true },
-            { label: "Exact alpha (at p0)", value: res.alpha, digits: 4, key: true },
-            { label: "Exact power (at p1)", value: res.power, digits: 4, key: true },
+    designSection([
+      { label: "Patients (n)", value: res.n, key: true },
+      { label: "Promising if responses ≥ (r)", value: res.r, key: true },
+      { label: "Exact alpha (at p0)", value: res.alpha, digits: 4, key: true },
+      { label: "Exact power (at p1)", value: res.power, digits: 4, key: true },
+    ], [
+      {
+        kind: "table",
+        table: {
+          id: "decision-rule",
+          caption: "Decision rule",
+          columns: [{ key: "responses", label: `Responses among ${res.n}` }, { key: "decision", label: "Decision" }],
+          rows: [[`${res.r} or more`, "Promising: consider further study"], [`${res.r - 1} or fewer`, "Not promising"]],
+        },
+      },
+      {
+        kind: "table",
+        table: {
+          id: "nearby-sizes",
+          caption: "Larger sizes: exact power is not monotone in n",
+          columns: [
+            { key: "n", label: "n" }, { key: "r", label: "r" },
+            { key: "alpha", label: "Alpha", digits: 4 }, { key: "power", label: "Power", digits: 4 },
+            { key: "meets", label: "Meets targets" },
           ],
+          rows: res.nearbySizes.map((s) => [s.n, s.r, s.alpha, s.power, s.meetsTargets ? "yes" : "no"]),
         },
-        {
-          kind: "table",
-          table: {
-            id: "decision-rule",
-            caption: "Decision rule",
-            columns: [{ key: "responses", label: `Responses among ${res.n}` }, { key: "decision", label: "Decision" }],
-            rows: [[`${res.r} or more`, "Promising: consider further study"], [`${res.r - 1} or fewer`, "Not promising"]],
-          },
-        },
-        {
-          kind: "table",
-          table: {
-            id: "nearby-sizes",
-            caption: "Larger sizes: exact power is not monotone in n",
-            columns: [
-              { key: "n", label: "n" }, { key: "r", label: "r" },
-              { key: "alpha", label: "Alpha", digits: 4 }, { key: "power", label: "Power", digits: 4 },
-              { key: "meets", label: "Meets targets" },
-            ],
-            rows: res.nearbySizes.map((s) => [s.n, s.r, s.alpha, s.power, s.meetsTargets ? "yes" : "no"]),
-          },
-        },
-      ],
-    },
-    {
-      id: "operating-characteristics",
-      title: "Operating characteristics",
-      blocks: [{
-        kind: "chart",
-        chart: {
-          id: "probability-of-promise",
-          title: `Probability of declaring promise (${res.r} or more of ${res.n}) against the true response rate`,
-          xLabel: "True response rate",
-          yLabel: "P(declare promising)",
-          xDomain: [0, 1],
-          yDomain: [0, 1],
-          series: [{ name: "P(declare promising)", points: res.curve, style: "line" }],
-          markers: [{ axis: "x", value: input.p0, label: `p0 = ${input.p0}` }, { axis: "x", value: input.p1, label: `p1 = ${input.p1}` }],
-        },
-      }],
-    },
-    { id: "protocol", title: "Statistical paragraph for the protocol", blocks: [{ kind: "protocol", text: protocol }] },
+      },
+    ]),
+    responseRateCurveSection({
+      id: "probability-of-promise",
+      title: `Probability of declaring promise (${res.r} or more of ${res.n}) against the true response rate`,
+      yLabel: "P(declare promising)",
+      points: res.curve,
+      markers: [{ axis: "x", value: input.p0, label: `p0 = ${input.p0}` }, { axis: "x", value: input.p1, label: `p1 = ${input.p1}` }],
+    }),
+    protocolSection(protocol),
   ];
 }
 

@@ -30,6 +30,7 @@ import type { Design } from "./design.js";
 import type { Section } from "../report/document.js";
 import { binomialPmf } from "../stats/binomial.js";
 import { STORER_1989 } from "./shared/doseFindingReferences.js";
+import { designSection, protocolSection } from "./shared/reportSections.js";
 
 export const MAX_DOSES = 12;
 const COHORT = 3;
@@ -238,31 +239,23 @@ function documentThreePlusThree(input: ThreePlusThreeInput, r: ThreePlusThreeRes
     `Under an assumed scenario of true DLT probabilities (${scenario}), exact enumeration of all cohort outcomes gives the probability of declaring each dose the MTD as ${selectionText}, and of declaring no dose ${pct(r.noDoseProbability)}. ` +
     `The expected number of patients is ${r.expectedTotalPatients.toFixed(1)} and the expected number of patients with a DLT is ${r.expectedTotalDlts.toFixed(2)}.`;
   return [
-    {
-      id: "design",
-      title: "Design",
-      blocks: [
-        {
-          kind: "facts",
-          facts: [
-            { label: "Most likely MTD", value: selected, key: true, note: `probability ${pct(r.mostLikelySelection >= 0 ? r.selectionProbability[r.mostLikelySelection]! : r.noDoseProbability)}` },
-            { label: "Expected patients", value: r.expectedTotalPatients, digits: 2, key: true },
-            { label: "Expected patients with a DLT", value: r.expectedTotalDlts, digits: 2, key: true },
-            { label: "Probability no dose is declared the MTD", value: r.noDoseProbability, digits: 4, key: true },
-            { label: "MTD rule", value: input.mtdRule === "next-lower-dose-with-six" ? "next lower dose, confirmed with 6 patients" : "next lower dose" },
-          ],
+    designSection([
+      { label: "Most likely MTD", value: selected, key: true, note: `probability ${pct(r.mostLikelySelection >= 0 ? r.selectionProbability[r.mostLikelySelection]! : r.noDoseProbability)}` },
+      { label: "Expected patients", value: r.expectedTotalPatients, digits: 2, key: true },
+      { label: "Expected patients with a DLT", value: r.expectedTotalDlts, digits: 2, key: true },
+      { label: "Probability no dose is declared the MTD", value: r.noDoseProbability, digits: 4, key: true },
+      { label: "MTD rule", value: input.mtdRule === "next-lower-dose-with-six" ? "next lower dose, confirmed with 6 patients" : "next lower dose" },
+    ], [
+      {
+        kind: "table",
+        table: {
+          id: "decision-rules",
+          caption: "Decision rules: patients with a DLT among those treated at the current dose",
+          columns: [{ key: "observed", label: "Patients with a DLT at the current dose" }, { key: "action", label: "Action" }],
+          rows: decisionRules(input.mtdRule),
         },
-        {
-          kind: "table",
-          table: {
-            id: "decision-rules",
-            caption: "Decision rules: patients with a DLT among those treated at the current dose",
-            columns: [{ key: "observed", label: "Patients with a DLT at the current dose" }, { key: "action", label: "Action" }],
-            rows: decisionRules(input.mtdRule),
-          },
-        },
-      ],
-    },
+      },
+    ]),
     {
       id: "operating-characteristics",
       title: "Operating characteristics (exact)",
@@ -315,7 +308,7 @@ function documentThreePlusThree(input: ThreePlusThreeInput, r: ThreePlusThreeRes
         },
       ],
     },
-    { id: "protocol", title: "Statistical paragraph for the protocol", blocks: [{ kind: "protocol", text: protocol }] },
+    protocolSection(protocol),
   ];
 }
 

@@ -25,6 +25,7 @@ import {
 import { TWO_STAGE_MAX_N, type TwoStageRule, evaluateTwoStage } from "./shared/twoStage.js";
 import { probabilityField } from "./shared/fields.js";
 import { describeTwoStage, twoStageRuleTable } from "./shared/twoStageReport.js";
+import { protocolSection } from "./shared/reportSections.js";
 
 const count = (description: string) => z.number().int().min(0).max(TWO_STAGE_MAX_N).describe(description);
 
@@ -167,7 +168,7 @@ function documentInference(input: TwoStageInferenceInput, res: TwoStageInference
         },
       }],
     },
-    { id: "protocol", title: "Statistical paragraph for the report", blocks: [{ kind: "protocol", text: protocol }] },
+    protocolSection(protocol, "report"),
   ];
 }
 
