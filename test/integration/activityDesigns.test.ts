@@ -2,22 +2,7 @@
 // the bad field, and 422s naming maxN with the smallest maxN that works.
 import { SELF } from "cloudflare:test";
 import { describe, expect, it } from "vitest";
-
-interface Problem {
-  status: number;
-  detail: string;
-  field?: string;
-  bound?: number;
-  smallestMaxN?: number;
-  errors?: Array<{ path: string; message: string }>;
-}
-
-const post = (design: string, inputs: unknown): Promise<Response> =>
-  SELF.fetch(`https://example.com/api/v1/designs/${design}/calculations`, {
-    method: "POST",
-    headers: { "content-type": "application/json" },
-    body: JSON.stringify({ inputs }),
-  });
+import { type Problem, postCalculation as post } from "../support/http.js";
 
 describe("activity designs over HTTP", () => {
   it("freezes Simon's optimal design 1/10, then 5/29 for p0 0.1 and p1 0.3 (from memory of Simon 1989 table 1) and serves its report", async () => {

@@ -2,21 +2,9 @@
 // field, and 422s saying what would make the rule workable.
 import { SELF } from "cloudflare:test";
 import { describe, expect, it } from "vitest";
+import { type Problem, postCalculation } from "../support/http.js";
 
-interface Problem {
-  status: number;
-  detail: string;
-  errors?: Array<{ path: string; message: string }>;
-  field?: string;
-  bound?: number;
-}
-
-const post = (inputs: unknown): Promise<Response> =>
-  SELF.fetch("https://example.com/api/v1/designs/bayesian-monitoring/calculations", {
-    method: "POST",
-    headers: { "content-type": "application/json" },
-    body: JSON.stringify({ inputs }),
-  });
+const post = (inputs: unknown): Promise<Response> => postCalculation("bayesian-monitoring", inputs);
 
 describe("bayesian-monitoring over HTTP", () => {
   it("freezes a predictive-probability calculation with its exact alpha and power", async () => {

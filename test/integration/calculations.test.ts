@@ -2,7 +2,7 @@
 // Worker (SELF.fetch) against miniflare's KV.
 import { SELF, env } from "cloudflare:test";
 import { describe, expect, it } from "vitest";
-import { ORIGIN, type ProblemBody, type RecordBody, createCalculation, get, post } from "./helpers.js";
+import { ORIGIN, type ProblemBody, type RecordBody, createCalculation, get, post } from "../support/http.js";
 
 const inputs = { delta: 0.5, sd: 1, alpha: 0.05, power: 0.8 };
 

@@ -4,7 +4,7 @@
 import { describe, expect, it } from "vitest";
 import { catalog } from "../../src/designs/catalog.js";
 import { createRandom } from "../../src/stats/random.js";
-import { type RecordBody, createCalculation, get, post } from "./helpers.js";
+import { type RecordBody, createCalculation, get, post } from "../support/http.js";
 
 describe("the catalog", () => {
   it("lists every design with its schema and example", async () => {

@@ -5,7 +5,7 @@
 import { describe, expect, it } from "vitest";
 import fixture from "../fixtures/dose-finding-reproducibility/simulations.json";
 import { canonicalJson } from "../../src/store/canonical.js";
-import { type ProblemBody, type RecordBody, createCalculation } from "./helpers.js";
+import { type ProblemBody, type RecordBody, createCalculation } from "../support/http.js";
 
 const doses = ["TW-417 10 mg", "TW-417 20 mg", "TW-417 40 mg", "TW-417 70 mg", "TW-417 100 mg"];
 const scenarios = [{ name: "s", dltProbabilities: [0.05, 0.1, 0.2, 0.3, 0.45] }];

@@ -1,18 +1,8 @@
 // The 3+3 design over HTTP: a frozen calculation, and 400s naming the bad field.
-import { SELF } from "cloudflare:test";
 import { describe, expect, it } from "vitest";
+import { type Problem, postCalculation } from "../support/http.js";
 
-interface Problem {
-  status: number;
-  errors?: Array<{ path: string; message: string }>;
-}
-
-const post = (inputs: unknown): Promise<Response> =>
-  SELF.fetch("https://example.com/api/v1/designs/three-plus-three/calculations", {
-    method: "POST",
-    headers: { "content-type": "application/json" },
-    body: JSON.stringify({ inputs }),
-  });
+const post = (inputs: unknown): Promise<Response> => postCalculation("three-plus-three", inputs);
 
 describe("three-plus-three over HTTP", () => {
   it("freezes a calculation whose selection probabilities sum to 1", async () => {

@@ -2,21 +2,53 @@
 import { SELF } from "cloudflare:test";
 import { expect } from "vitest";
 
-export interface Problem {
+export const ORIGIN = "https://trialwright.test";
+
+/** An RFC 9457 problem document as the API writes it; designs add their own members (bound, field, ...). */
+export interface ProblemBody {
+  type: string;
+  title: string;
   status: number;
   detail: string;
+  errors?: Array<{ path: string; pointer: string; message: string }>;
   bound?: number;
   field?: string;
-  errors?: Array<{ path: string; message: string }>;
+  [key: string]: unknown;
+}
+export type Problem = ProblemBody;
+
+export interface RecordBody {
+  id: string;
+  design: string;
+  designVersion: number;
+  engine: string;
+  inputs: Record<string, unknown>;
+  label?: string;
+  result: Record<string, unknown>;
+  createdAt: string;
+  digest: string;
+}
+
+export function post(path: string, body: unknown, headers: Record<string, string> = {}): Promise<Response> {
+  return SELF.fetch(`${ORIGIN}${path}`, {
+    method: "POST",
+    headers: { "content-type": "application/json", ...headers },
+    body: typeof body === "string" ? body : JSON.stringify(body),
+  });
+}
+
+export function get(path: string, headers: Record<string, string> = {}): Promise<Response> {
+  return SELF.fetch(`${ORIGIN}${path}`, { headers });
+}
+
+/** POSTs `{ inputs, label? }` to a design's calculations endpoint. */
+export function createCalculation(design: string, inputs: unknown, label?: string): Promise<Response> {
+  return post(`/api/v1/designs/${design}/calculations`, label === undefined ? { inputs } : { inputs, label });
 }
 
 /** POSTs `{ inputs }` to a design's calculations endpoint. */
 export function postCalculation(design: string, inputs: unknown): Promise<Response> {
-  return SELF.fetch(`https://example.com/api/v1/designs/${design}/calculations`, {
-    method: "POST",
-    headers: { "content-type": "application/json" },
-    body: JSON.stringify({ inputs }),
-  });
+  return createCalculation(design, inputs);
 }
 
 /** Asserts a 400 problem+json whose error at `path` reads like `message`. */
