@@ -2,7 +2,7 @@
 // the bad field, and 422s naming maxN with the smallest maxN that works.
 import { SELF } from "cloudflare:test";
 import { describe, expect, it } from "vitest";
-import { type Problem, postCalculation as post } from "../support/http.js";
+import { type Problem, expectErrorAt, postCalculation as post } from "../support/http.js";
 
 describe("activity designs over HTTP", () => {
   it("freezes Simon's optimal design 1/10, then 5/29 for p0 0.1 and p1 0.3 (from memory of Simon 1989 table 1) and serves its report", async () => {
@@ -31,10 +31,7 @@ describe("activity designs over HTTP", () => {
   for (const [design, what, inputs, path] of bad) {
     it(`${design}: answers 400 naming ${path} for ${what}`, async () => {
       const res = await post(design, inputs);
-      expect(res.status).toBe(400);
-      expect(res.headers.get("content-type")).toMatch(/application\/problem\+json/);
-      const problem = await res.json<Problem>();
-      expect(problem.errors?.map((e) => e.path)).toContain(path);
+      await expectErrorAt(res, path);
     });
   }
 

@@ -2,7 +2,7 @@
 // field, and 422s saying what would make the rule workable.
 import { SELF } from "cloudflare:test";
 import { describe, expect, it } from "vitest";
-import { type Problem, postCalculation } from "../support/http.js";
+import { type Problem, expectErrorAt, postCalculation } from "../support/http.js";
 
 const post = (inputs: unknown): Promise<Response> => postCalculation("bayesian-monitoring", inputs);
 
@@ -46,10 +46,7 @@ describe("bayesian-monitoring over HTTP", () => {
   for (const [what, inputs, path] of bad) {
     it(`answers 400 naming ${path} for ${what}`, async () => {
       const res = await post(inputs);
-      expect(res.status).toBe(400);
-      expect(res.headers.get("content-type")).toMatch(/application\/problem\+json/);
-      const problem = await res.json<Problem>();
-      expect(problem.errors?.map((e) => e.path)).toContain(path);
+      await expectErrorAt(res, path);
     });
   }
 

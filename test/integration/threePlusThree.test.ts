@@ -1,6 +1,6 @@
 // The 3+3 design over HTTP: a frozen calculation, and 400s naming the bad field.
 import { describe, expect, it } from "vitest";
-import { type Problem, postCalculation } from "../support/http.js";
+import { expectErrorAt, postCalculation } from "../support/http.js";
 
 const post = (inputs: unknown): Promise<Response> => postCalculation("three-plus-three", inputs);
 
@@ -24,10 +24,7 @@ describe("three-plus-three over HTTP", () => {
   for (const [what, inputs, path] of cases) {
     it(`answers 400 naming ${path} for ${what}`, async () => {
       const res = await post(inputs);
-      expect(res.status).toBe(400);
-      expect(res.headers.get("content-type")).toMatch(/application\/problem\+json/);
-      const problem = await res.json<Problem>();
-      expect(problem.errors?.map((e) => e.path)).toContain(path);
+      await expectErrorAt(res, path);
     });
   }
 });

@@ -51,11 +51,22 @@ export function postCalculation(design: string, inputs: unknown): Promise<Respon
   return createCalculation(design, inputs);
 }
 
-/** Asserts a 400 problem+json whose error at `path` reads like `message`. */
-export async function expectFieldError(res: Response, path: string, message: RegExp): Promise<void> {
+/** Asserts a 400 problem+json and reads it. */
+async function badRequest(res: Response): Promise<Problem> {
   expect(res.status).toBe(400);
   expect(res.headers.get("content-type")).toMatch(/application\/problem\+json/);
-  const problem = await res.json<Problem>();
+  return res.json<Problem>();
+}
+
+/** Asserts a 400 problem+json whose error at `path` reads like `message`. */
+export async function expectFieldError(res: Response, path: string, message: RegExp): Promise<void> {
+  const problem = await badRequest(res);
   const error = problem.errors?.find((e) => e.path === path);
   expect(error?.message, JSON.stringify(problem.errors)).toMatch(message);
+}
+
+/** Asserts a 400 problem+json with an error at `path`. */
+export async function expectErrorAt(res: Response, path: string): Promise<void> {
+  const problem = await badRequest(res);
+  expect(problem.errors?.map((e) => e.path)).toContain(path);
 }

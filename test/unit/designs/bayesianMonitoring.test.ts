@@ -8,7 +8,7 @@ import { predictiveProbability } from "../../../src/designs/shared/bayesianRules
 import { InfeasibleDesignError } from "../../../src/designs/design.js";
 import { betaCdf, betaSurvival } from "../../../src/stats/beta.js";
 import { betaBinomialPmf } from "../../../src/stats/betaBinomial.js";
-import { createRandom } from "../../../src/stats/random.js";
+import { type RandomSource, createRandom } from "../../../src/stats/random.js";
 
 interface RuleCase {
   rule: "posterior" | "predictive";
@@ -103,36 +103,47 @@ describe("published example", () => {
   });
 });
 
-/** The posterior rule applied directly: at each check, compute the posterior probability. */
-function simulatePosterior(input: BayesianMonitoringInput, rate: number, trials: number, seed: number) {
-  const random = createRandom(seed);
+/** f(x, n) computed once per count pair (n below 1000). */
+function memoized(f: (x: number, n: number) => number): (x: number, n: number) => number {
   const memo = new Map<number, number>();
-  const beyond = (x: number, n: number): number => {
+  return (x, n) => {
     const key = x * 1000 + n;
     let v = memo.get(key);
     if (v === undefined) {
-      v = input.monitor === "response"
-        ? betaCdf(input.limit!, input.priorA + x, input.priorB + n - x)
-        : betaSurvival(input.limit!, input.priorA + x, input.priorB + n - x);
+      v = f(x, n);
       memo.set(key, v);
     }
     return v;
   };
+}
+
+/** One simulated single-arm trial: patients one at a time until maxN or until `stops(x, n)` after a patient. */
+function simulateTrial(random: RandomSource, rate: number, maxN: number, stops: (x: number, n: number) => boolean): { x: number; n: number; stopped: boolean } {
+  let x = 0;
+  let n = 0;
+  let stopped = false;
+  while (n < maxN && !stopped) {
+    n++;
+    if (random.bernoulli(rate)) x++;
+    if (stops(x, n)) stopped = true;
+  }
+  return { x, n, stopped };
+}
+
+/** The posterior rule applied directly: at each check, compute the posterior probability. */
+function simulatePosterior(input: BayesianMonitoringInput, rate: number, trials: number, seed: number) {
+  const random = createRandom(seed);
+  const beyond = memoized((x, n) => input.monitor === "response"
+    ? betaCdf(input.limit!, input.priorA + x, input.priorB + n - x)
+    : betaSurvival(input.limit!, input.priorA + x, input.priorB + n - x));
   const isCheck = (n: number): boolean => n === input.maxN || (n >= input.firstCheck && (n - input.firstCheck) % input.cohortSize === 0);
   let stops = 0;
   let early = 0;
   let size = 0;
   for (let t = 0; t < trials; t++) {
-    let x = 0;
-    let n = 0;
-    let stopped = false;
-    while (n < input.maxN && !stopped) {
-      n++;
-      if (random.bernoulli(rate)) x++;
-      if (isCheck(n) && beyond(x, n) > input.threshold!) stopped = true;
-    }
-    if (stopped) { stops++; if (n < input.maxN) early++; }
-    size += n;
+    const trial = simulateTrial(random, rate, input.maxN, (x, n) => isCheck(n) && beyond(x, n) > input.threshold!);
+    if (trial.stopped) { stops++; if (trial.n < input.maxN) early++; }
+    size += trial.n;
   }
   return { stop: stops / trials, early: early / trials, size: size / trials };
 }
@@ -142,31 +153,18 @@ function simulatePredictive(input: BayesianMonitoringInput, rate: number, trials
   const random = createRandom(seed);
   const N = input.maxN;
   const success = (x: number): boolean => betaSurvival(input.p0!, input.priorA + x, input.priorB + N - x) > input.efficacyThreshold!;
-  const memo = new Map<number, number>();
-  const pp = (x: number, n: number): number => {
-    const key = x * 1000 + n;
-    let v = memo.get(key);
-    if (v === undefined) {
-      v = 0;
-      for (let y = 0; y <= N - n; y++) if (success(x + y)) v += betaBinomialPmf(y, N - n, input.priorA + x, input.priorB + n - x);
-      memo.set(key, v);
-    }
+  const pp = memoized((x, n) => {
+    let v = 0;
+    for (let y = 0; y <= N - n; y++) if (success(x + y)) v += betaBinomialPmf(y, N - n, input.priorA + x, input.priorB + n - x);
     return v;
-  };
+  });
   let promising = 0;
   let early = 0;
   let size = 0;
   for (let t = 0; t < trials; t++) {
-    let x = 0;
-    let n = 0;
-    let stopped = false;
-    while (n < N && !stopped) {
-      n++;
-      if (random.bernoulli(rate)) x++;
-      if (n < N && n >= input.firstCheck && (n - input.firstCheck) % input.cohortSize === 0 && pp(x, n) < input.futilityThreshold!) stopped = true;
-    }
-    if (stopped) early++; else if (success(x)) promising++;
-    size += n;
+    const trial = simulateTrial(random, rate, N, (x, n) => n < N && n >= input.firstCheck && (n - input.firstCheck) % input.cohortSize === 0 && pp(x, n) < input.futilityThreshold!);
+    if (trial.stopped) early++; else if (success(trial.x)) promising++;
+    size += trial.n;
   }
   return { promising: promising / trials, early: early / trials, size: size / trials };
 }
