@@ -21,7 +21,7 @@
  */
 import { z } from "zod";
 import type { Design } from "./design.js";
-import type { Cell, Section } from "../report/document.js";
+import type { Block, Cell, Section } from "../report/document.js";
 import { threePlusThreeOperatingCharacteristics } from "./threePlusThree.js";
 import { type CrmInput, CRM_WORK_LIMIT, crmModelOf, crmTrialRunner } from "./crm.js";
 import { type BoinInput, BOIN_WORK_LIMIT, boinBoundaries, boinTrialRunner } from "./boin.js";
@@ -164,10 +164,19 @@ function documentComparison(v: DoseFindingComparisonInput, r: DoseFindingCompari
     const oc = d.operatingCharacteristics;
     return [d.design, d.exact ? "exact" : `${v.trials} simulated trials`, ...summaryCells(oc)];
   });
-  const perDose = (pick: (oc: OperatingCharacteristics, i: number) => number, none: ((oc: OperatingCharacteristics) => number) | null): Cell[][] => {
+  // One row per dose (and a "No dose" row when `none` is given), one column per design.
+  const perDoseTable = (id: string, caption: string, digits: number, pick: (oc: OperatingCharacteristics, i: number) => number, none: ((oc: OperatingCharacteristics) => number) | null): Block => {
     const rows: Cell[][] = doses.map((d, i) => [d, v.scenario.dltProbabilities[i]!, pick(tpt, i), pick(crmOc, i), pick(boinOc, i)]);
     if (none) rows.push(["No dose", null, none(tpt), none(crmOc), none(boinOc)]);
-    return rows;
+    return {
+      kind: "table",
+      table: {
+        id,
+        caption,
+        columns: [{ key: "dose", label: "Dose" }, { key: "truth", label: "True DLT probability", digits: 3 }, { key: "tpt", label: "3+3", digits }, { key: "crm", label: "CRM", digits }, { key: "boin", label: "BOIN", digits }],
+        rows,
+      },
+    };
   };
   const best = r.designs.reduce((a, b) => (b.operatingCharacteristics.correctSelectionProbability > a.operatingCharacteristics.correctSelectionProbability ? b : a));
   const protocol =
@@ -209,33 +218,9 @@ function documentComparison(v: DoseFindingComparisonInput, r: DoseFindingCompari
           chart: selectionChart("selection", `How often each dose is selected as the MTD (scenario "${v.scenario.name}")`, doses,
             r.designs.map((d) => ({ name: d.design, oc: d.operatingCharacteristics }))),
         },
-        {
-          kind: "table",
-          table: {
-            id: "selection",
-            caption: "Selected as MTD (% of trials)",
-            columns: [{ key: "dose", label: "Dose" }, { key: "truth", label: "True DLT probability", digits: 3 }, { key: "tpt", label: "3+3", digits: 1 }, { key: "crm", label: "CRM", digits: 1 }, { key: "boin", label: "BOIN", digits: 1 }],
-            rows: perDose((oc, i) => pct(oc.selectionProbability[i]!), (oc) => pct(oc.noSelectionProbability)),
-          },
-        },
-        {
-          kind: "table",
-          table: {
-            id: "patients",
-            caption: "Mean patients treated per dose",
-            columns: [{ key: "dose", label: "Dose" }, { key: "truth", label: "True DLT probability", digits: 3 }, { key: "tpt", label: "3+3", digits: 2 }, { key: "crm", label: "CRM", digits: 2 }, { key: "boin", label: "BOIN", digits: 2 }],
-            rows: perDose((oc, i) => oc.meanPatients[i]!, null),
-          },
-        },
-        {
-          kind: "table",
-          table: {
-            id: "dlts",
-            caption: "Mean patients with a DLT per dose",
-            columns: [{ key: "dose", label: "Dose" }, { key: "truth", label: "True DLT probability", digits: 3 }, { key: "tpt", label: "3+3", digits: 2 }, { key: "crm", label: "CRM", digits: 2 }, { key: "boin", label: "BOIN", digits: 2 }],
-            rows: perDose((oc, i) => oc.meanDlts[i]!, null),
-          },
-        },
+        perDoseTable("selection", "Selected as MTD (% of trials)", 1, (oc, i) => pct(oc.selectionProbability[i]!), (oc) => pct(oc.noSelectionProbability)),
+        perDoseTable("patients", "Mean patients treated per dose", 2, (oc, i) => oc.meanPatients[i]!, null),
+        perDoseTable("dlts", "Mean patients with a DLT per dose", 2, (oc, i) => oc.meanDlts[i]!, null),
       ],
     },
     protocolSection(protocol),

@@ -57,28 +57,29 @@ function tail(x: number): number {
 export function probabilityAbove(state: ContinuationDensity, t: number, b: number, drift: number): number {
   if (b === Infinity) return 0;
   if (b === -Infinity) return remainingProbability(state);
-  const s = state.time;
-  const sd = Math.sqrt(t - s);
-  const bScaled = b * Math.sqrt(t) - drift * (t - s);
-  const rootS = Math.sqrt(s);
-  let sum = 0;
-  for (let i = 0; i < state.points.length; i++) {
-    sum += state.mass[i]! * tail((bScaled - state.points[i]! * rootS) / sd);
-  }
-  return sum;
+  return crossing(state, t, b, drift, 1);
 }
 
 /** P(Z(t) < a, no earlier stop). */
 export function probabilityBelow(state: ContinuationDensity, t: number, a: number, drift: number): number {
   if (a === -Infinity) return 0;
   if (a === Infinity) return remainingProbability(state);
+  return crossing(state, t, a, drift, -1);
+}
+
+/**
+ * P(side · Z(t) > side · bound, no earlier stop) for a finite bound: the
+ * continuation mass times the normal tail of the increment beyond the bound
+ * (side 1 above it, side -1 below it; −x equals −1 · x exactly).
+ */
+function crossing(state: ContinuationDensity, t: number, bound: number, drift: number, side: 1 | -1): number {
   const s = state.time;
   const sd = Math.sqrt(t - s);
-  const aScaled = a * Math.sqrt(t) - drift * (t - s);
+  const scaled = bound * Math.sqrt(t) - drift * (t - s);
   const rootS = Math.sqrt(s);
   let sum = 0;
   for (let i = 0; i < state.points.length; i++) {
-    sum += state.mass[i]! * tail(-(aScaled - state.points[i]! * rootS) / sd);
+    sum += state.mass[i]! * tail((side * (scaled - state.points[i]! * rootS)) / sd);
   }
   return sum;
 }

@@ -11,6 +11,17 @@ import { evaluateTwoStage, summarizeTwoStage, type TwoStageRule } from "../../..
 import { createRandom } from "../../../src/stats/random.js";
 
 const parse = (inputs: Record<string, unknown>) => simonTwoStage.input.parse(inputs);
+
+/** The details of the InfeasibleDesignError that computing these inputs must throw. */
+function infeasibleDetails(inputs: Record<string, unknown>): Record<string, unknown> {
+  try {
+    simonTwoStage.compute(parse(inputs));
+  } catch (e) {
+    expect(e).toBeInstanceOf(InfeasibleDesignError);
+    return (e as InfeasibleDesignError).details;
+  }
+  return expect.fail("expected InfeasibleDesignError");
+}
 const rule = (d: TwoStageRule): [number, number, number, number] => [d.r1, d.n1, d.r, d.n];
 
 describe("Simon (1989) tables 1 and 2, alpha 0.05 (from memory of the tables)", () => {
@@ -178,24 +189,13 @@ describe("bad and infeasible input", () => {
   });
 
   it("a maxN below the minimax size is infeasible and names the smallest maxN that works (25: minimax n, from memory of Simon 1989 table 1)", () => {
-    try {
-      simonTwoStage.compute(parse({ p0: 0.1, p1: 0.3, alpha: 0.05, power: 0.8, maxN: 20 }));
-      expect.fail("expected InfeasibleDesignError");
-    } catch (e) {
-      expect(e).toBeInstanceOf(InfeasibleDesignError);
-      expect((e as InfeasibleDesignError).details).toMatchObject({ field: "maxN", bound: 20, smallestMaxN: 25 });
-    }
+    expect(infeasibleDetails({ p0: 0.1, p1: 0.3, alpha: 0.05, power: 0.8, maxN: 20 })).toMatchObject({ field: "maxN", bound: 20, smallestMaxN: 25 });
   });
 
   it("when no maxN allowed works, says so without a smallest maxN", () => {
-    try {
-      simonTwoStage.compute(parse({ p0: 0.5, p1: 0.55, alpha: 0.01, power: 0.99, maxN: 100 }));
-      expect.fail("expected InfeasibleDesignError");
-    } catch (e) {
-      expect(e).toBeInstanceOf(InfeasibleDesignError);
-      expect((e as InfeasibleDesignError).details).toMatchObject({ field: "maxN", bound: 100 });
-      expect((e as InfeasibleDesignError).details).not.toHaveProperty("smallestMaxN");
-    }
+    const details = infeasibleDetails({ p0: 0.5, p1: 0.55, alpha: 0.01, power: 0.99, maxN: 100 });
+    expect(details).toMatchObject({ field: "maxN", bound: 100 });
+    expect(details).not.toHaveProperty("smallestMaxN");
   });
 });
 
