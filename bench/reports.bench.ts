@@ -49,7 +49,7 @@ const cpuBefore = process.cpuUsage();
 const pdfRuns = 15 + 10;
 await benchAsync(`PDF of the largest example (${largest.designId}, ${byCells(largest)} cells)`, () => renderPdf(largest, REPORT_FONTS), { runs: 15, warmup: 10, budgetMs: 200 });
 const cpu = process.cpuUsage(cpuBefore);
-console.log(`${"  CPU time per PDF (user + system)".padEnd(60)} mean   ${((cpu.user + cpu.system) / 1000 / pdfRuns).toFixed(2).padStart(9)} ms`);
+console.log(`${"  CPU time per PDF (user + system, warm-up runs included)".padEnd(60)} mean   ${((cpu.user + cpu.system) / 1000 / pdfRuns).toFixed(2).padStart(9)} ms`);
 bench(`HTML of the largest example (${largest.designId})`, () => renderHtml(largest), { runs: 30 });
 
 // A cached permalink: freeze through the API, draw the PDF once, then count what the cached answers do.
