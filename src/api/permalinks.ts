@@ -22,7 +22,7 @@ import { loadRecord } from "./service.js";
 
 const IMMUTABLE = "public, max-age=31536000, immutable";
 /** Bump when the PDF layout changes, so cached renderings of old layouts are not served. */
-export const PDF_RENDERING_VERSION = 1;
+export const PDF_RENDERING_VERSION = 2;
 /** Response header telling whether a PDF came from the rendering cache ("cached") or was drawn for this request ("rendered"). */
 export const RENDERING_HEADER = "X-Trialwright-Rendering";
 /** The page forbids every script and every request outside itself; a second guard behind escaping. */

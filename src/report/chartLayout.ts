@@ -120,6 +120,24 @@ function truncate(text: string, maxWidth: number, size: number): string {
   return `${chars.slice(0, keep).join("")}…`;
 }
 
+/** Legend entries flowed left to right, wrapping to a new row when the plot's width is used up. */
+function placeLegend(names: string[], left: number, plotWidth: number, size: number): Array<{ x: number; row: number; label: string }> {
+  let x = left;
+  let row = 0;
+  return names.map((name) => {
+    // A name may take a whole row before it is shortened.
+    const label = truncate(name, plotWidth - 34, size);
+    const w = 22 + estimateTextWidth(label, size) + 12;
+    if (x + w > left + plotWidth && x > left) {
+      x = left;
+      row += 1;
+    }
+    const entry = { x, row, label };
+    x += w;
+    return entry;
+  });
+}
+
 export function layoutChart(chart: Chart, box: ChartBox): ChartLayout {
   const size = box.fontSize ?? 8;
   const { width, height } = box;
@@ -136,7 +154,6 @@ export function layoutChart(chart: Chart, box: ChartBox): ChartLayout {
   const yExtent = chart.yDomain ?? extent(ys) ?? [0, 1];
 
   const legend = series.length > 1;
-  const top = legend ? size * 3 : size * 1.6;
   const yScale = niceScale(yExtent[0], yExtent[1], Math.max(3, Math.round(height / 45)), chart.yDomain !== undefined);
   const yLabels = yScale.ticks.map((t) => tickLabel(t, yScale.step));
   const left = size * 2.4 + Math.max(...yLabels.map((l) => estimateTextWidth(l, size)), size) + 6;
@@ -144,6 +161,10 @@ export function layoutChart(chart: Chart, box: ChartBox): ChartLayout {
   // Bars sit on category bands; other charts on a continuous x axis.
   const bandCount = isBars ? Math.max(categories.length, ...xs.map((x) => Math.round(x) + 1), 1) : 0;
   const plotWidth = Math.max(10, width - left - right);
+  const legendEntries = legend ? placeLegend(series.map((s) => s.name), left, plotWidth, size) : [];
+  // The plot starts below the last legend row, however many rows a narrow chart needs.
+  const legendRows = legendEntries.length > 0 ? Math.max(...legendEntries.map((e) => e.row)) + 1 : 0;
+  const top = legend ? size * 1.6 + legendRows * size * 1.4 : size * 1.6;
   const categoryLines = isBars
     ? [...Array(bandCount).keys()].map((t) => labelLines(categories[t] ?? String(t), plotWidth / bandCount - 3, size, 2))
     : [];
@@ -230,21 +251,14 @@ export function layoutChart(chart: Chart, box: ChartBox): ChartLayout {
   }
 
   if (legend) {
-    let x = plot.x;
-    let y = size * 1.2;
     series.forEach((s, index) => {
       const colour = SERIES_COLOURS[index % SERIES_COLOURS.length]!;
-      const label = truncate(s.name, plot.width / 2, size);
-      const w = 22 + estimateTextWidth(label, size) + 12;
-      if (x + w > plot.x + plot.width && x > plot.x) {
-        x = plot.x;
-        y += size * 1.4;
-      }
+      const { x, row, label } = legendEntries[index]!;
+      const y = size * 1.2 + row * size * 1.4;
       if (s.style === "bars") primitives.push({ type: "rect", x, y: y - size * 0.7, width: 14, height: size * 0.8, fill: colour });
       else if (s.style === "points") primitives.push({ type: "circle", cx: x + 8, cy: y - size * 0.3, r: 2.2, fill: colour });
       else primitives.push({ type: "line", x1: x, y1: y - size * 0.3, x2: x + 16, y2: y - size * 0.3, stroke: colour, width: 1.6, dash: SERIES_DASHES[index % SERIES_DASHES.length]! });
       primitives.push({ type: "text", x: x + 20, y, text: label, size, anchor: "start", fill: INK });
-      x += w;
     });
   }
 
