@@ -37,6 +37,9 @@ import { findRoot } from "../stats/rootFinding.js";
 import { type AccrualModel, enrolledFraction, eventProbability, expectedEventFraction } from "../stats/eventProbability.js";
 import { type ArmSizes, armsFromControl, curveSizes, detectableEffect } from "./shared/sizing.js";
 import { checkComparativeCommon, comparativeCommonFields } from "./shared/fields.js";
+import {
+  type InterimLooksResult, interimLooksField, interimLooksProtocolText, interimLooksSections, planInterimLooks, refineInterimTest,
+} from "./shared/interimLooks.js";
 
 const MAX_EVENTS = 200000;
 const MAX_ENROLLED = 1000000;
@@ -70,6 +73,7 @@ const schema = z
     allocationRatio,
     events: z.number().int().min(2).max(MAX_EVENTS).optional()
       .describe("Number of events at the analysis, when solving for power or for the hazard ratio."),
+    interimLooks: interimLooksField,
   })
   .superRefine((v, ctx) => {
     const issue = (path: string, message: string): void => ctx.addIssue({ code: "custom", path: [path], message });
@@ -96,6 +100,10 @@ const schema = z
     }
     if (v.solveFor !== "sample-size" && v.events === undefined) issue("events", "Give the number of events expected at the analysis when solving for power or for the hazard ratio.");
     checkComparativeCommon({ ...v, hypothesis: "superiority" }, ctx);
+    if (v.interimLooks !== undefined) {
+      if (v.solveFor !== "sample-size") issue("interimLooks", "Interim looks are planned with the events: set solveFor to sample-size, or leave interimLooks out.");
+      refineInterimTest(v.alpha, v.power, issue);
+    }
   })
   .transform((v) => ({ ...v, sides: v.sides ?? 2 }));
 
@@ -151,6 +159,10 @@ export interface TimeToEventResult {
   enrolmentOverTime: Array<[number, number]>;
   /** [events, power]. */
   powerCurve: Array<[number, number]>;
+  /** Only when interimLooks is given: the group-sequential maximum events, looks and boundaries. */
+  interimLooks?: InterimLooksResult;
+  /** Enrolment and calendar for the group-sequential maximum events. */
+  interimEnrolment?: EnrolmentPlan;
 }
 
 const zCritical = (input: Pick<TimeToEventInput, "alpha" | "sides">): number => normalQuantile(1 - input.alpha / input.sides);
@@ -299,7 +311,17 @@ export function computeTimeToEvent(input: TimeToEventInput): TimeToEventResult {
     eventsOverTime: times.map((t) => [t, expectedEventsAt(input, hazards, arms, t)]),
     enrolmentOverTime: times.map((t) => [t, (plan.n1 + plan.n2) * enrolledFraction(t, input.accrualYears)]),
     powerCurve: curveSizes(events, 2).map((d) => [d, timeToEventPower(input, d, hazardRatio)]),
+    ...(input.interimLooks ? interimPlan(input, input.interimLooks, hazards, events) : {}),
   };
+}
+
+/** The group-sequential maximum from the fixed-design events, and the enrolment that reaches it. */
+function interimPlan(input: TimeToEventInput, options: NonNullable<TimeToEventInput["interimLooks"]>, hazards: ArmHazards, events: number): Pick<TimeToEventResult, "interimLooks" | "interimEnrolment"> {
+  const interimLooks = planInterimLooks(options, { alpha: input.alpha, power: input.power, sides: input.sides }, { unit: "events", total: events });
+  if (interimLooks.maximumTotal > MAX_EVENTS) {
+    throw new InfeasibleDesignError(`With interim looks the trial needs ${interimLooks.maximumTotal} events, more than the bound of ${MAX_EVENTS}.`, { bound: MAX_EVENTS, field: "interimLooks", events: interimLooks.maximumTotal });
+  }
+  return { interimLooks, interimEnrolment: planEnrolment(input, hazards, interimLooks.maximumTotal) };
 }
 
 const fmt = (x: number, d = 3): string => x.toFixed(d);
@@ -466,7 +488,8 @@ function documentTimeToEvent(input: TimeToEventInput, r: TimeToEventResult): Sec
         },
       ],
     },
-    { id: "protocol", title: "Statistical paragraph for the protocol", blocks: [{ kind: "protocol", text: protocol }] },
+    ...(input.interimLooks && r.interimLooks ? interimLooksSections(input.interimLooks, input.sides, r.interimLooks) : []),
+    { id: "protocol", title: "Statistical paragraph for the protocol", blocks: [{ kind: "protocol", text: input.interimLooks && r.interimLooks && r.interimEnrolment ? `${protocol} ${interimLooksProtocolText(input.interimLooks, input.sides, r.interimLooks)} To reach the maximum events, ${r.interimEnrolment.n1 + r.interimEnrolment.n2} participants are enrolled (${r.interimEnrolment.n1} control, ${r.interimEnrolment.n2} experimental), the final analysis expected about ${fmt(r.interimEnrolment.analysisYears, 1)} years after the first participant enters.` : protocol }] },
   ];
 }
 

@@ -42,6 +42,9 @@ import {
 } from "./shared/sizing.js";
 import { checkComparativeCommon, comparativeCommonFields, groupSizeField, probabilityField, solveForField } from "./shared/fields.js";
 import { type ProportionsTest, nullDifference, twoProportionsPower } from "./shared/twoProportionsPower.js";
+import {
+  type InterimLooksResult, interimLooksField, interimLooksProtocolText, interimLooksSections, planInterimLooks, refineInterimTest,
+} from "./shared/interimLooks.js";
 
 const MAX_PER_ARM = 100000;
 /** Largest arm the exact sample-size scan visits. */
@@ -68,6 +71,7 @@ const schema = z
     ...comparativeCommonFields,
     n1: groupSizeField("Control-arm size, when solving for power or for the difference.", MAX_PER_ARM),
     n2: groupSizeField("Experimental-arm size, when solving for power or for the difference.", MAX_PER_ARM),
+    interimLooks: interimLooksField,
   })
   .superRefine((v, ctx) => {
     const issue = (path: string, message: string): void => ctx.addIssue({ code: "custom", path: [path], message });
@@ -92,6 +96,11 @@ const schema = z
         const n = v[field];
         if (v.solveFor === "power" && n !== undefined && n > EXACT_MAX_PER_ARM) issue(field, `The exact method enumerates every possible outcome and accepts arms up to ${EXACT_MAX_PER_ARM}; for larger arms the normal methods are accurate.`);
       }
+    }
+    if (v.interimLooks !== undefined) {
+      if (v.solveFor !== "sample-size") issue("interimLooks", "Interim looks are planned with the sample size: set solveFor to sample-size, or leave interimLooks out.");
+      if (v.method === "fisher-exact") issue("interimLooks", "Group-sequential boundaries are on the Z scale of the normal approximation: use the normal or normal-corrected method with interim looks.");
+      refineInterimTest(v.alpha, v.power, issue);
     }
     if (!isProportion(v.p1)) return;
     const o1 = higher ? v.p1 : 1 - v.p1;
@@ -151,6 +160,8 @@ export interface TwoProportionsResult {
   normalPowerCurve: Array<[number, number]> | null;
   /** [experimental proportion, power] at the design's arm sizes. */
   effectCurve: Array<[number, number]>;
+  /** Only when interimLooks is given: the group-sequential maximum, looks and boundaries. */
+  interimLooks?: InterimLooksResult;
 }
 
 const toOriented = (input: TwoProportionsInput, p: number): number => (input.betterWhen === "higher" ? p : 1 - p);
@@ -266,6 +277,9 @@ export function computeTwoProportions(input: TwoProportionsInput): TwoProportion
     powerCurve,
     normalPowerCurve,
     effectCurve: proportionCurve(input, arms, fixed.p2),
+    ...(input.interimLooks ? {
+      interimLooks: planInterimLooks(input.interimLooks, { alpha: input.alpha, power: input.power, sides: input.sides }, { unit: "participants", n1: arms.n1, n2: arms.n2, dropout: input.dropout }),
+    } : {}),
   };
 }
 
@@ -410,7 +424,8 @@ function documentTwoProportions(input: TwoProportionsInput, r: TwoProportionsRes
         },
       ],
     },
-    { id: "protocol", title: "Statistical paragraph for the protocol", blocks: [{ kind: "protocol", text: protocol }] },
+    ...(input.interimLooks && r.interimLooks ? interimLooksSections(input.interimLooks, input.sides, r.interimLooks) : []),
+    { id: "protocol", title: "Statistical paragraph for the protocol", blocks: [{ kind: "protocol", text: input.interimLooks && r.interimLooks ? `${protocol} ${interimLooksProtocolText(input.interimLooks, input.sides, r.interimLooks)}` : protocol }] },
   );
   return sections;
 }
