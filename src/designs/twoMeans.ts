@@ -42,7 +42,7 @@ const schema = z
       .describe("Superiority: the arms differ. Non-inferiority: the experimental arm is not worse than control by more than the margin. Equivalence: the arms differ by less than the margin (two one-sided tests)."),
     delta: z.number().min(-1e9).max(1e9).optional()
       .describe("Expected true difference in means, experimental minus control, in outcome units; positive favours the experimental arm. Not needed when solving for the difference."),
-    sd: z.number().gt(0).max(1e9).describe("Common standard deviation of the outcome in each arm, in outcome units."),
+    sd: z.number().min(1e-9).max(1e9).describe("Common standard deviation of the outcome in each arm, in outcome units (at least 1e-9: rescale the units for smaller values)."),
     margin: z.number().gt(0).max(1e9).optional()
       .describe("Non-inferiority or equivalence margin, in outcome units, entered as a positive number."),
     method: z.enum(["exact-t", "normal"]).default("exact-t")

@@ -123,7 +123,7 @@ describe("bad input", () => {
     expect(res.status).toBe(400);
     const problem = await res.json<ProblemBody>();
     const byPath = Object.fromEntries(problem.errors!.map((e) => [e.path, e.message]));
-    expect(byPath["inputs.sd"]).toMatch(/greater than 0/);
+    expect(byPath["inputs.sd"]).toMatch(/at least 1e-9/);
     expect(byPath["inputs.alpha"]).toMatch(/at most 0\.5/);
     expect(byPath["inputs.power"]).toMatch(/less than 1/);
     expect(byPath["inputs.dropout"]).toMatch(/at most 0\.9/);

@@ -119,6 +119,17 @@ describe("two-means: other modes", () => {
   });
 });
 
+describe("two-means: input bounds", () => {
+  it("refuses a standard deviation so small that the standard error underflows (found by the hostile-input test)", () => {
+    expect(twoMeans.input.safeParse({ delta: 5e-324, sd: 5e-324 }).success).toBe(false);
+    expect(twoMeans.input.safeParse({ delta: 4, sd: 5e-324 }).success).toBe(false);
+  });
+  it("refuses a difference of more than 100 standard deviations, naming delta", () => {
+    const bad = twoMeans.input.safeParse({ delta: 1000, sd: 1 });
+    expect(bad.error?.issues.map((i) => i.path.join("."))).toContain("delta");
+  });
+});
+
 describe("two-means: normalization", () => {
   it("sides defaults to 2 for superiority and 1 for non-inferiority and equivalence", () => {
     expect(twoMeans.input.parse({ delta: 1, sd: 1 }).sides).toBe(2);
