@@ -125,7 +125,7 @@ function documentSingleStage(input: SingleStageBinomialInput, res: SingleStageBi
 
 export const singleStageBinomial: Design<SingleStageBinomialInput, SingleStageBinomialResult> = {
   id: "single-stage-binomial",
-  version: 1,
+  version: 2,
   stage: "activity",
   title: "Single-stage exact binomial design",
   summary: "Smallest single-arm trial, and its critical number of responses, that tells an uninteresting response rate from a target one with exact alpha and power.",

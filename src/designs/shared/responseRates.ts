@@ -9,9 +9,11 @@ import { probabilityField } from "./fields.js";
 export const responseRateFields = {
   p0: probabilityField("Response rate too low to be of interest (the null rate p0), as a proportion between 0 and 1: a drug this active should be stopped."),
   p1: probabilityField("Response rate worth pursuing (the target rate p1), as a proportion between 0 and 1; it must exceed p0."),
-  alpha: z.number().gt(0).max(0.5).default(0.05)
+  // Exact tails are summed to about 1e-12 and constraints are met within 1e-12,
+  // so an alpha or a 1 - power below 1e-6 would be decided by rounding.
+  alpha: z.number().min(1e-6, "Alpha must be at least 0.000001: smaller error rates are below the precision of the exact search.").max(0.5).default(0.05)
     .describe("Largest accepted probability of declaring the drug promising when its true response rate is p0 (one-sided type I error)."),
-  power: z.number().gt(0).lt(1).default(0.8)
+  power: z.number().gt(0).max(0.999999, "Power must be at most 0.999999: closer to 1 is below the precision of the exact search.").default(0.8)
     .describe("Smallest accepted probability of declaring the drug promising when its true response rate is p1 (1 - beta)."),
 };
 

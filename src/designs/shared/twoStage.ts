@@ -29,7 +29,8 @@ export interface TwoStagePoint {
 export function binomialUpperTails(m: number, p: number): Float64Array {
   const pmf = binomialPmfArray(m, p);
   const tails = new Float64Array(m + 2);
-  for (let k = m; k >= 0; k--) tails[k] = tails[k + 1]! + pmf[k]!;
+  // Rounding in the sum can pass 1 by a few 1e-12 near the bottom; a probability cannot.
+  for (let k = m; k >= 0; k--) tails[k] = Math.min(1, tails[k + 1]! + pmf[k]!);
   tails[0] = 1;
   return tails;
 }

@@ -210,3 +210,16 @@ describe("report", () => {
     expect(protocol && protocol.kind === "protocol" ? protocol.text : "").toContain(result.design.alpha.toFixed(4));
   });
 });
+
+describe("degenerate targets", () => {
+  it("refuses an alpha below 1e-6, which the 1e-12 precision of the search cannot honour (found by the degenerate-input audit)", () => {
+    // Common practice, no source: alpha 5e-324 used to return n = 297 with exact alpha 6.9e-13, far above the target.
+    const r = simonTwoStage.input.safeParse({ mode: "search", p0: 0.1, p1: 0.3, alpha: 5e-324, power: 0.8, maxN: 300 });
+    expect(r.success).toBe(false);
+    expect(r.success ? [] : r.error.issues.map((i) => i.path.join("."))).toEqual(["alpha"]);
+    const p = simonTwoStage.input.safeParse({ mode: "search", p0: 0.1, p1: 0.3, alpha: 0.05, power: 1 - 1e-15, maxN: 300 });
+    expect(p.success ? [] : p.error.issues.map((i) => i.path.join("."))).toEqual(["power"]);
+    const result = simonTwoStage.compute(parse({ mode: "search", p0: 0.1, p1: 0.3, alpha: 1e-6, power: 0.8, maxN: 300 }));
+    expect(result.optimal?.alpha).toBeLessThanOrEqual(1e-6);
+  });
+});

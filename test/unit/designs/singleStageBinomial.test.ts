@@ -5,6 +5,7 @@ import { expectClose, loadFixture } from "../../support/fixtures.js";
 import { InfeasibleDesignError } from "../../../src/designs/design.js";
 import { singleStageBinomial } from "../../../src/designs/singleStageBinomial.js";
 import { createRandom } from "../../../src/stats/random.js";
+import { binomialUpperTails } from "../../../src/designs/shared/twoStage.js";
 
 const parse = (inputs: Record<string, unknown>) => singleStageBinomial.input.parse(inputs);
 
@@ -55,5 +56,25 @@ describe("single-stage exact binomial design", () => {
     expect(r.success).toBe(false);
     expect(r.success ? [] : r.error.issues.map((i) => i.path.join("."))).toContain("p1");
     expect(() => singleStageBinomial.compute(parse({ p0: 0.5, p1: 0.501, alpha: 0.01, power: 0.99 }))).toThrow(InfeasibleDesignError);
+  });
+
+  it("refuses an alpha below 1e-6 or a power above 0.999999, which the 1e-12 precision cannot honour (found by the degenerate-input audit)", () => {
+    // Common practice, no source: alpha 5e-324 used to return a design with exact alpha 7.8e-13, far above the target.
+    for (const [field, value] of [["alpha", 5e-324], ["alpha", 1e-9], ["power", 1 - 1e-15], ["power", 1 - 1e-9]] as const) {
+      const r = singleStageBinomial.input.safeParse({ p0: 0.15, p1: 0.35, alpha: 0.05, power: 0.8, [field]: value });
+      expect(r.success).toBe(false);
+      expect(r.success ? [] : r.error.issues.map((i) => i.path.join("."))).toEqual([field]);
+    }
+    const smallest = singleStageBinomial.compute(parse({ p0: 0.15, p1: 0.35, alpha: 1e-6, power: 0.8 }));
+    expect(smallest.alpha).toBeLessThanOrEqual(1e-6);
+  });
+
+  it("never reports a probability above 1, though a tail summed over 5000 terms can round past it (found by the degenerate-input audit)", () => {
+    // Common practice, no source: a probability lies in [0, 1]; summing Binomial(5000, 0.35) from the top overshoots 1 by about 7e-12.
+    const tails = binomialUpperTails(5000, 0.35);
+    expect(Math.max(...tails)).toBeLessThanOrEqual(1);
+    const result = singleStageBinomial.compute(parse({ p0: 0.15, p1: 0.35, alpha: 0.5, power: 0.999999 }));
+    for (const rule of [result, ...result.nearbySizes]) expect(rule.power).toBeLessThanOrEqual(1);
+    for (const [, y] of result.curve) expect(y).toBeLessThanOrEqual(1);
   });
 });
