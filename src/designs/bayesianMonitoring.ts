@@ -59,6 +59,8 @@ const rate = (description: string) => z.number().gt(0, rateMessage).lt(1, rateMe
 const probability = (description: string) =>
   z.number().gt(0, "A probability threshold must be strictly between 0 and 1.").lt(1, "A probability threshold must be strictly between 0 and 1.").describe(description);
 
+const PRIOR_SHAPE_MESSAGE = "A prior shape must be at least 0.001 (a prior weight of 0.001 patients is already negligible).";
+
 const POSTERIOR_ONLY = ["monitor", "limit", "threshold"] as const;
 const PREDICTIVE_ONLY = ["p0", "p1", "thresholds", "efficacyThreshold", "futilityThreshold", "alpha", "power"] as const;
 
@@ -80,9 +82,10 @@ const schema = z
       .describe("Predictive rule with thresholds search: the largest acceptable probability of declaring promise when the response rate is p0 (0.1 by default)."),
     power: z.number().gt(0).lt(1).optional()
       .describe("Predictive rule with thresholds search: the smallest acceptable probability of declaring promise when the response rate is p1 (0.8 by default)."),
-    priorA: z.number().gt(0).max(1000).default(1)
+    // Below 0.001 the incomplete beta function loses its digits (a shape of 5e-324 gave P = 1 where it is 0).
+    priorA: z.number().min(0.001, PRIOR_SHAPE_MESSAGE).max(1000).default(1)
       .describe("Beta prior for the event rate: first shape a (prior events). a / (a + b) is the prior mean; a + b its weight in patients."),
-    priorB: z.number().gt(0).max(1000).default(1)
+    priorB: z.number().min(0.001, PRIOR_SHAPE_MESSAGE).max(1000).default(1)
       .describe("Beta prior for the event rate: second shape b (prior non-events)."),
     maxN: z.number().int().min(2).max(MAX_PATIENTS, `At most ${MAX_PATIENTS} patients can be monitored here.`)
       .describe(`Maximum number of patients (2 to ${MAX_PATIENTS}).`),

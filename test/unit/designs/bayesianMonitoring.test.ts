@@ -272,3 +272,18 @@ describe("bayesian-monitoring inputs", () => {
     expect(infeasible({ rule: "predictive", p0: 0.3, p1: 0.5, maxN: 40, firstCheck: 2, futilityThreshold: 0.99 }).details).toMatchObject({ field: "futilityThreshold" });
   });
 });
+
+describe("degenerate priors", () => {
+  it("refuses a prior shape below 0.001, where a shape of 5e-324 turned P(rate > limit | no toxicity) = 0 into 1 (found by the degenerate-input audit)", () => {
+    const base = { rule: "posterior", monitor: "toxicity", limit: 0.25, threshold: 0.9, maxN: 40, cohortSize: 1 };
+    for (const field of ["priorA", "priorB"] as const) {
+      const r = bayesianMonitoring.input.safeParse({ ...base, priorA: 1, priorB: 1, [field]: 5e-324 });
+      expect(r.success ? [] : r.error.issues.map((i) => i.path.join("."))).toEqual([field]);
+    }
+    // Closed form for Beta(a, 1): P(X > x) = 1 - x^a (common practice, no source); at the smallest shape allowed the kernel keeps it.
+    expectClose(betaSurvival(0.25, 0.001, 1), -Math.expm1(0.001 * Math.log(0.25)), 1e-10, { x: 0.25, a: 0.001, b: 1 });
+    const result = bayesianMonitoring.compute(parse({ ...base, priorA: 0.001, priorB: 0.001 }));
+    // A near-empty prior: one toxicity in the first patient is enough to stop, none is not.
+    expect(result.boundary[0]).toMatchObject({ patients: 1, stopAt: 1 });
+  });
+});
