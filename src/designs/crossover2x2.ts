@@ -46,8 +46,8 @@ const schema = z
       .describe("Superiority: the treatments differ. Non-inferiority: treatment A is not worse than B by more than the margin."),
     delta: z.number().min(-1e9).max(1e9).optional()
       .describe("Expected true difference in means, A (experimental) minus B (control), in outcome units; positive favours A. Not needed when solving for the difference."),
-    withinSubjectSd: z.number().gt(0).max(1e9)
-      .describe("Within-subject standard deviation: the SD of repeated measurements on the same subject (the residual SD of the crossover analysis). If you know the SD of each subject's period-1 minus period-2 difference, enter it divided by √2."),
+    withinSubjectSd: z.number().min(1e-9, "The within-subject standard deviation must be at least 1e-9 in outcome units: rescale the units for smaller values.").max(1e9)
+      .describe("Within-subject standard deviation: the SD of repeated measurements on the same subject (the residual SD of the crossover analysis). If you know the SD of each subject's period-1 minus period-2 difference, enter it divided by √2 (at least 1e-9: rescale the units for smaller values)."),
     margin: z.number().min(-1e9).max(1e9).optional()
       .describe("Non-inferiority margin, in outcome units, entered as a positive number."),
     method: z.enum(["exact-t", "normal"]).default("exact-t")
@@ -71,6 +71,9 @@ const schema = z
       if (v.margin === undefined) issue("margin", "A non-inferiority design needs a margin: the largest loss in the mean you would accept, as a positive number in outcome units.");
       else if (v.margin <= 0) issue("margin", "Enter the non-inferiority margin as a positive number in outcome units: the largest amount by which A may be worse than B.");
     }
+    const scale = (x: number | undefined): number => (x === undefined ? 0 : Math.abs(x) / v.withinSubjectSd);
+    if (scale(v.delta) > 100) issue("delta", "The difference is more than 100 within-subject standard deviations; check that the difference and the standard deviation are in the same units.");
+    if (scale(v.margin) > 100) issue("margin", "The margin is more than 100 within-subject standard deviations; check that the margin and the standard deviation are in the same units.");
     if (v.solveFor === "difference" || v.delta === undefined) return;
     if (v.hypothesis === "superiority" && v.delta === 0) issue("delta", "A superiority design needs a non-zero difference to detect.");
     if (v.hypothesis === "superiority" && v.sides === 1 && v.delta < 0) issue("delta", "A one-sided test looks for benefit: enter the difference so that positive favours treatment A.");
@@ -123,7 +126,8 @@ export function crossoverPower(test: CrossoverTest, withinSubjectSd: number, seq
   const lower = (c: number, ncp: number): number => (exact ? noncentralTCdf(c, df, ncp) : normalCdf(c - ncp));
   if (test.hypothesis === "superiority" && test.sides === 2) {
     const c = crit(1 - test.alpha / 2);
-    return upper(c, delta / se) + lower(-c, delta / se);
+    // The two tails are computed separately and can sum past 1 by rounding when power is near 1.
+    return Math.min(1, upper(c, delta / se) + lower(-c, delta / se));
   }
   const shift = test.hypothesis === "non-inferiority" ? test.margin! : 0;
   return upper(crit(1 - test.alpha), (delta + shift) / se);
@@ -286,7 +290,7 @@ function documentCrossover(input: Crossover2x2Input, r: Crossover2x2Result): Sec
 
 export const crossover2x2: Design<Crossover2x2Input, Crossover2x2Result> = {
   id: "crossover-2x2",
-  version: 1,
+  version: 2,
   stage: "comparative",
   title: "Two-period crossover (AB/BA)",
   summary: "Sample size, power or detectable difference for an AB/BA crossover comparing means with the within-subject standard deviation, by the exact t method or the normal approximation.",

@@ -470,7 +470,7 @@ function documentFactorial(input: Factorial2x2Input, r: Factorial2x2Result): Sec
 
 export const factorial2x2: Design<Factorial2x2Input, Factorial2x2Result> = {
   id: "factorial-2x2",
-  version: 2,
+  version: 3,
   stage: "comparative",
   title: "Factorial 2×2 (two treatments in one trial)",
   summary: "Participants per cell for testing two treatments' main effects at the margins of a 2×2 factorial trial, with a choice of multiplicity adjustment, and the size an interaction would need beside it; means or proportions.",

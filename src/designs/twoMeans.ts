@@ -131,7 +131,8 @@ export function twoMeansPower(input: TwoMeansInput, arms: ArmSizes, delta: numbe
       const ncp = delta / se;
       if (input.sides === 2) {
         const c = crit(1 - input.alpha / 2);
-        return upperTail(c, ncp) + lowerTail(-c, ncp);
+        // The two tails are computed separately and can sum past 1 by rounding when power is near 1.
+        return Math.min(1, upperTail(c, ncp) + lowerTail(-c, ncp));
       }
       return upperTail(crit(1 - input.alpha), ncp);
     }
@@ -314,7 +315,7 @@ function documentTwoMeans(input: TwoMeansInput, r: TwoMeansResult): Section[] {
 
 export const twoMeans: Design<TwoMeansInput, TwoMeansResult> = {
   id: "two-means",
-  version: 1,
+  version: 2,
   stage: "comparative",
   title: "Two means (parallel groups)",
   summary: "Sample size or power for comparing a continuous outcome between two arms: superiority, non-inferiority or equivalence, by the exact t method or the normal approximation.",

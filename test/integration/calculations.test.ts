@@ -34,7 +34,7 @@ describe("freezing a calculation", () => {
   it("stores normalized inputs and the result (64 per group, Cohen 1988 table 2.4.1)", async () => {
     const record = await (await createCalculation("two-means", inputs)).json<RecordBody>();
     expect(record.design).toBe("two-means");
-    expect(record.designVersion).toBe(1);
+    expect(record.designVersion).toBe(2);
     expect(record.engine).toMatch(/^trialwright \d+\.\d+\.\d+$/);
     expect(record.inputs).toMatchObject({ ...inputs, method: "exact-t", sides: 2, allocationRatio: 1, dropout: 0 });
     expect(record.result).toMatchObject({ n1: 64, n2: 64, total: 128 });

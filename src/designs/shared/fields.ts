@@ -4,8 +4,8 @@ import { z } from "zod";
 export const probabilityField = (description: string) => z.number().gt(0).lt(1).describe(description);
 
 export const comparativeCommonFields = {
-  alpha: z.number().gt(0).max(0.5).default(0.05)
-    .describe("Type I error rate: the probability of declaring a difference when there is none (for a two-sided test, split between the two tails)."),
+  alpha: z.number().min(1e-6, "Alpha must be at least 0.000001 (1e-6): smaller levels are beyond what the normal and t quantiles resolve.").max(0.5).default(0.05)
+    .describe("Type I error rate: the probability of declaring a difference when there is none (for a two-sided test, split between the two tails); from 1e-6 to 0.5."),
   power: z.number().gt(0).lt(1).default(0.8)
     .describe("Target probability of a positive result when the assumed effect is true (1 - beta)."),
   sides: z.union([z.literal(1), z.literal(2)]).optional()

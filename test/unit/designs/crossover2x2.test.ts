@@ -114,3 +114,20 @@ describe("validation", () => {
     expect(unknown.success ? [] : unknown.error.issues.flatMap((i) => (i.code === "unrecognized_keys" ? i.keys : []))).toContain("allocationRatio");
   });
 });
+
+describe("degenerate inputs", () => {
+  it("refuses a within-subject SD below 1e-9, where the standard error underflows and power became NaN (found by the degenerate-input audit)", () => {
+    expect(issuesOf({ delta: 1e-15, withinSubjectSd: 5e-324 }).find((i) => i.path === "withinSubjectSd")?.message).toMatch(/at least 1e-9/);
+    expect(crossover2x2.input.safeParse({ delta: 1e-8, withinSubjectSd: 1e-9 }).success).toBe(true);
+  });
+  it("refuses a difference or margin of more than 100 within-subject SDs, naming the field (found by the degenerate-input audit)", () => {
+    expect(issuesOf({ delta: 1e9, withinSubjectSd: 1 }).map((i) => i.path)).toEqual(["delta"]);
+    expect(issuesOf({ hypothesis: "non-inferiority", delta: 0, margin: 1e9, withinSubjectSd: 1, sides: 1 }).map((i) => i.path)).toEqual(["margin"]);
+  });
+  it("keeps a two-sided power within [0, 1] when the two tails sum past 1 by rounding (found by the degenerate-input audit)", () => {
+    // A probability cannot exceed 1 (definition): before the fix this gave power 1.000000000002.
+    const r = compute({ delta: 6, withinSubjectSd: 10, alpha: 1e-6, power: 0.999999999999999 });
+    expect(r.power).toBeLessThanOrEqual(1);
+    for (const [, p] of [...r.powerCurve, ...r.effectCurve]) expect(p).toBeLessThanOrEqual(1);
+  });
+});

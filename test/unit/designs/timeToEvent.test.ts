@@ -123,6 +123,12 @@ describe("time-to-event: solving for power and for the hazard ratio", () => {
 
 describe("time-to-event: bad and infeasible input", () => {
   const issues = (inputs: Record<string, unknown>) => timeToEvent.input.safeParse(inputs).error?.issues.map((i) => i.path.join(".")) ?? [];
+  it("refuses an alpha below 1e-6, which made the required events infinite, naming alpha (found by the degenerate-input audit)", () => {
+    expect(issues({ ...setting, hazardRatio: 0.7, alpha: 1e-300 })).toEqual(["alpha"]);
+    expect(issues({ ...setting, solveFor: "power", hazardRatio: 0.7, events: 2, alpha: 1e-300, sides: 1 })).toEqual(["alpha"]);
+    const r = solve({ ...setting, solveFor: "power", hazardRatio: 0.7, events: 2, alpha: 1e-6, sides: 1 });
+    expect(Number.isFinite(r.schoenfeldEvents)).toBe(true);
+  });
   it("hazard ratio 1, equal medians, non-positive medians and zero accrual are refused with their field", () => {
     expect(issues({ ...setting, hazardRatio: 1 })).toEqual(["hazardRatio"]);
     expect(issues({ ...setting, experimentalMedianYears: 2 })).toEqual(["experimentalMedianYears"]);

@@ -124,6 +124,18 @@ describe("two-means: input bounds", () => {
     expect(twoMeans.input.safeParse({ delta: 5e-324, sd: 5e-324 }).success).toBe(false);
     expect(twoMeans.input.safeParse({ delta: 4, sd: 5e-324 }).success).toBe(false);
   });
+  it("keeps a two-sided power within [0, 1] when the two tails sum past 1 by rounding (found by the degenerate-input audit)", () => {
+    // A probability cannot exceed 1 (definition, no source needed): before the fix this target gave power 1.000000000001.
+    const r = solve({ delta: 4, sd: 9, alpha: 0.05, power: 0.999999999999999 });
+    expect(r.power).toBeLessThanOrEqual(1);
+    for (const [, p] of r.powerCurve) expect(p).toBeLessThanOrEqual(1);
+  });
+  it("refuses an alpha below 1e-6, whose quantiles are beyond double precision, naming alpha (found by the degenerate-input audit)", () => {
+    const bad = twoMeans.input.safeParse({ delta: 4, sd: 9, alpha: 1e-300 });
+    expect(bad.error?.issues.map((i) => i.path.join("."))).toEqual(["alpha"]);
+    expect(bad.error?.issues[0]?.message).toMatch(/at least 0\.000001/);
+    expect(twoMeans.input.safeParse({ delta: 4, sd: 9, alpha: 1e-6, power: 0.9 }).success).toBe(true);
+  });
   it("refuses a difference of more than 100 standard deviations, naming delta", () => {
     const bad = twoMeans.input.safeParse({ delta: 1000, sd: 1 });
     expect(bad.error?.issues.map((i) => i.path.join("."))).toContain("delta");
