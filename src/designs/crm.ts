@@ -42,8 +42,13 @@ import { type CrmModel, calibrateSkeleton, doseConstants, doseProbability, logis
 import { CrmFastPosterior, type CrmPosteriorSummary, crmPosterior } from "./shared/crmPosterior.js";
 import { designSection, protocolSection } from "./shared/reportSections.js";
 
-/** Trials × scenarios × decisions × doses one request may simulate (a few seconds on one core). */
-export const CRM_WORK_LIMIT = 2_000_000;
+/**
+ * Trials × scenarios × decisions × doses one request may simulate. The costliest
+ * plan at the limit (every dose safe, so every trial runs to its maximum with a
+ * posterior at each decision) takes about 1.5 s on one core (bench/crm.bench.ts),
+ * inside a Worker request; 2,000,000 took about 6 s.
+ */
+export const CRM_WORK_LIMIT = 500_000;
 
 const schema = z
   .strictObject({

@@ -5,7 +5,7 @@
 // of the simulations is checked against the adaptive Gauss-Kronrod reference.
 import { describe, expect, it } from "vitest";
 import { expectClose, loadFixture } from "../../support/fixtures.js";
-import { computeCrm, crm } from "../../../src/designs/crm.js";
+import { CRM_WORK_LIMIT, computeCrm, crm } from "../../../src/designs/crm.js";
 import { InfeasibleDesignError } from "../../../src/designs/design.js";
 import { calibrateSkeleton, type CrmModelKind } from "../../../src/designs/shared/crmModel.js";
 import { CrmFastPosterior, crmPosterior } from "../../../src/designs/shared/crmPosterior.js";
@@ -160,6 +160,14 @@ describe("CRM simulation", () => {
     const input = crm.input.parse({ doses, cohortSize: 1, maxSampleSize: 150, trials: 20000, scenarios: [scenario] });
     expect(() => computeCrm(input)).toThrow(InfeasibleDesignError);
     expect(() => computeCrm(input)).toThrow(/Reduce the number of trials/);
+  });
+
+  it("refuses a plan that would run past a request's time, such as 400 trials of 150 patients one by one over 10 doses (found by the degenerate-input audit)", () => {
+    // Common practice, no source: 1,333 such trials (2,000,000 units) were accepted and took about 6 s; the limit is now 500,000 units (bench/crm.bench.ts).
+    const tenDoses = Array.from({ length: 10 }, (_, i) => `dose ${i + 1}`);
+    const plan = (trials: number) => crm.input.parse({ doses: tenDoses, cohortSize: 1, maxSampleSize: 150, trials, scenarios: [{ name: "all safe", dltProbabilities: tenDoses.map(() => 0.001) }] });
+    expect(() => computeCrm(plan(400))).toThrow(/above the limit of 500,000/);
+    expect(CRM_WORK_LIMIT).toBeGreaterThanOrEqual(333 * 150 * 10);
   });
 });
 
