@@ -227,7 +227,7 @@ function checkPredictiveFeasible(input: BayesianMonitoringInput, s: number | nul
   const first = boundary[0]!;
   if (first.stopAt === first.patients) {
     throw new InfeasibleDesignError(
-      `The rule stops for futility at the first check (${first.patients} patients) whatever the outcomes: even ${first.patients} responses give a predictive probability below ${input.futilityThreshold}. Lower the futility threshold, check later, or raise maxN.`,
+      `The rule stops for futility at the first check (${first.patients} ${first.patients === 1 ? "patient" : "patients"}) whatever the outcomes: even ${first.patients === 1 ? "a response in that patient gives" : `${first.patients} responses give`} a predictive probability below ${input.futilityThreshold}. Lower the futility threshold, check later, or raise maxN.`,
       { field: "futilityThreshold", firstCheck: first.patients },
     );
   }

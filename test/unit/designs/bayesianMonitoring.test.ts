@@ -287,3 +287,12 @@ describe("degenerate priors", () => {
     expect(result.boundary[0]).toMatchObject({ patients: 1, stopAt: 1 });
   });
 });
+
+describe("degenerate first check", () => {
+  it("words the futility-at-first-check refusal for a single patient (found by the degenerate-input audit)", () => {
+    // Common practice, no source: the message used to read "(1 patients) ... even 1 responses give".
+    const input = parse({ rule: "predictive", p0: 0.2, p1: 0.4, priorA: 0.001, priorB: 1000, maxN: 300, firstCheck: 1 });
+    expect(() => bayesianMonitoring.compute(input)).toThrow(InfeasibleDesignError);
+    expect(() => bayesianMonitoring.compute(input)).toThrow(/\(1 patient\) whatever the outcomes: even a response in that patient gives/);
+  });
+});
