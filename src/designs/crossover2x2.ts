@@ -34,6 +34,8 @@ import { studentTQuantile } from "../stats/studentT.js";
 import { noncentralTCdf, noncentralTSurvival } from "../stats/noncentralT.js";
 import { type ArmSizes, detectableEffect, effectCurve, inflateForDropout, powerCurve, smallestSampleSize } from "./shared/sizing.js";
 import { checkComparativeCommon, comparativeCommonFields, groupSizeField, solveForField } from "./shared/fields.js";
+import { designSection, protocolSection } from "./shared/reportSections.js";
+import { effectCurveChart, powerCurveChart, powerCurveTable } from "./shared/comparativeSections.js";
 
 const MAX_PER_SEQUENCE = 100000;
 
@@ -204,87 +206,61 @@ function documentCrossover(input: Crossover2x2Input, r: Crossover2x2Result): Sec
       : `A two-period crossover with ${r.n1} subjects in sequence AB and ${r.n2} in sequence BA has ${pct(input.power, 0)} power to detect a difference in means of ${fmt(r.delta, 4)} between treatment A and treatment B`;
   const protocol = `${head}, assuming a within-subject standard deviation of ${input.withinSubjectSd} (standard error of the period-adjusted difference ${fmt(r.standardError, 4)}), using ${describeTest(input)} based on ${method}. The treatment effect will be estimated from the within-subject differences adjusted for period. ${WASHOUT}${dropoutText}`;
   return [
-    {
-      id: "design",
-      title: "Design",
-      blocks: [
-        {
-          kind: "facts",
-          facts: [
-            { label: "Sequence AB (n1)", value: r.n1, key: true },
-            { label: "Sequence BA (n2)", value: r.n2, key: true },
-            { label: "Total subjects completing both periods", value: r.total, key: true },
-            { label: "Total to randomize after dropout", value: r.enrolledTotal, key: true },
-            { label: "Achieved power", value: r.power, digits: 4, key: true },
-            { label: "Difference in means (A − B)", value: r.delta, digits: 4 },
-            { label: "Standard error of the difference", value: r.standardError, digits: 4, note: "σw √((1/n1 + 1/n2)/2)" },
-            { label: "Critical value", value: r.criticalValue, digits: 4, note: input.method === "exact-t" ? `t on ${r.degreesOfFreedom} degrees of freedom` : "standard normal" },
+    designSection([
+      { label: "Sequence AB (n1)", value: r.n1, key: true },
+      { label: "Sequence BA (n2)", value: r.n2, key: true },
+      { label: "Total subjects completing both periods", value: r.total, key: true },
+      { label: "Total to randomize after dropout", value: r.enrolledTotal, key: true },
+      { label: "Achieved power", value: r.power, digits: 4, key: true },
+      { label: "Difference in means (A − B)", value: r.delta, digits: 4 },
+      { label: "Standard error of the difference", value: r.standardError, digits: 4, note: "σw √((1/n1 + 1/n2)/2)" },
+      { label: "Critical value", value: r.criticalValue, digits: 4, note: input.method === "exact-t" ? `t on ${r.degreesOfFreedom} degrees of freedom` : "standard normal" },
+    ], [
+      {
+        kind: "table",
+        table: {
+          id: "sequences",
+          caption: "Sequences: what each subject receives",
+          columns: [
+            { key: "sequence", label: "Sequence" }, { key: "period1", label: "Period 1" }, { key: "period2", label: "Period 2" },
+            { key: "completing", label: "Completing" }, { key: "randomized", label: "To randomize" },
           ],
+          rows: [
+            ["AB", "A (experimental)", "B (control)", r.n1, r.enrolled1],
+            ["BA", "B (control)", "A (experimental)", r.n2, r.enrolled2],
+            ["Total", "", "", r.total, r.enrolledTotal],
+          ],
+          note: "A washout separates the periods; see the caution on carryover.",
         },
-        {
-          kind: "table",
-          table: {
-            id: "sequences",
-            caption: "Sequences: what each subject receives",
-            columns: [
-              { key: "sequence", label: "Sequence" }, { key: "period1", label: "Period 1" }, { key: "period2", label: "Period 2" },
-              { key: "completing", label: "Completing" }, { key: "randomized", label: "To randomize" },
-            ],
-            rows: [
-              ["AB", "A (experimental)", "B (control)", r.n1, r.enrolled1],
-              ["BA", "B (control)", "A (experimental)", r.n2, r.enrolled2],
-              ["Total", "", "", r.total, r.enrolledTotal],
-            ],
-            note: "A washout separates the periods; see the caution on carryover.",
-          },
-        },
-        {
-          kind: "paragraph",
-          text: `Variance convention: the within-subject standard deviation σw = ${input.withinSubjectSd} is the SD of repeated measurements on one subject (the residual SD of the crossover analysis). Each subject's period-1 minus period-2 difference then has SD σw√2, and the period-adjusted treatment difference has standard error σw √((1/n1 + 1/n2)/2) = ${fmt(r.standardError, 4)}.`,
-        },
-        { kind: "paragraph", text: WASHOUT },
-      ],
-    },
+      },
+      {
+        kind: "paragraph",
+        text: `Variance convention: the within-subject standard deviation σw = ${input.withinSubjectSd} is the SD of repeated measurements on one subject (the residual SD of the crossover analysis). Each subject's period-1 minus period-2 difference then has SD σw√2, and the period-adjusted treatment difference has standard error σw √((1/n1 + 1/n2)/2) = ${fmt(r.standardError, 4)}.`,
+      },
+      { kind: "paragraph", text: WASHOUT },
+    ]),
     {
       id: "operating-characteristics",
       title: "Power against sample size and effect",
       blocks: [
-        {
-          kind: "chart",
-          chart: {
-            id: "power-curve",
-            title: `Power against total subjects (difference ${fmt(r.delta, 3)}, within-subject SD ${input.withinSubjectSd})`,
-            xLabel: "Total subjects completing both periods",
-            yLabel: "Power",
-            yDomain: [0, 1],
-            series: [{ name: "Power", points: r.powerCurve, style: "line" }],
-            markers: [{ axis: "y", value: input.power, label: `target ${input.power}` }, { axis: "x", value: r.total, label: `n = ${r.total}` }],
-          },
-        },
-        {
-          kind: "table",
-          table: {
-            id: "power-curve",
-            caption: "Power at other sample sizes",
-            columns: [{ key: "total", label: "Total subjects" }, { key: "power", label: "Power", digits: 4 }],
-            rows: r.powerCurve.map(([n, p]) => [n, p]),
-          },
-        },
-        {
-          kind: "chart",
-          chart: {
-            id: "effect-curve",
-            title: `Power against the true difference (${r.n1} AB, ${r.n2} BA)`,
-            xLabel: "True difference in means (A − B)",
-            yLabel: "Power",
-            yDomain: [0, 1],
-            series: [{ name: "Power", points: [...r.effectCurve].sort((a, b) => a[0] - b[0]), style: "line" }],
-            markers: [{ axis: "x", value: r.delta, label: `δ = ${fmt(r.delta, 3)}` }, { axis: "y", value: input.power, label: `target ${input.power}` }],
-          },
-        },
+        powerCurveChart({
+          title: `Power against total subjects (difference ${fmt(r.delta, 3)}, within-subject SD ${input.withinSubjectSd})`,
+          xLabel: "Total subjects completing both periods",
+          series: [{ name: "Power", points: r.powerCurve, style: "line" }],
+          target: input.power,
+          total: r.total,
+        }),
+        powerCurveTable(r.powerCurve, "Total subjects"),
+        effectCurveChart({
+          title: `Power against the true difference (${r.n1} AB, ${r.n2} BA)`,
+          xLabel: "True difference in means (A − B)",
+          points: r.effectCurve,
+          effect: { axis: "x", value: r.delta, label: `δ = ${fmt(r.delta, 3)}` },
+          target: input.power,
+        }),
       ],
     },
-    { id: "protocol", title: "Statistical paragraph for the protocol", blocks: [{ kind: "protocol", text: protocol }] },
+    protocolSection(protocol),
   ];
 }
 

@@ -48,6 +48,7 @@ import { noncentralTCdf, noncentralTSurvival } from "../stats/noncentralT.js";
 import { type TwoMeansInput, twoMeansPower } from "./twoMeans.js";
 import { twoProportionsPower } from "./shared/twoProportionsPower.js";
 import { curveSizes, detectableEffect, inflateForDropout, smallestSampleSize } from "./shared/sizing.js";
+import { designSection, protocolSection } from "./shared/reportSections.js";
 import { checkComparativeCommon, comparativeCommonFields, probabilityField } from "./shared/fields.js";
 
 const MAX_PER_CELL = 50000;
@@ -363,68 +364,60 @@ function documentFactorial(input: Factorial2x2Input, r: Factorial2x2Result): Sec
   const requiredCell = (n: number | null): number | string => (n === null ? `> ${MAX_PER_CELL}` : n);
   const curves = r.powerCurves;
   return [
-    {
-      id: "design",
-      title: "Design",
-      blocks: [
-        {
-          kind: "facts",
-          facts: [
-            { label: "Evaluable per cell", value: r.nPerCell, key: true, note: r.sizedBy ? `set by the main effect of ${r.sizedBy}` : undefined },
-            { label: "Total evaluable", value: r.total, key: true },
-            { label: "Total to enrol after dropout", value: r.enrolledTotal, key: true },
-            { label: "Power, main effect of A", value: a.power, digits: 4, key: true },
-            { label: "Power, main effect of B", value: b.power, digits: 4, key: true },
-            { label: "Total to detect the interaction", value: r.interaction.requiredTotal === null ? `> ${4 * MAX_PER_CELL}` : r.interaction.requiredTotal, key: true },
-            { label: "Level of each main-effect test", value: a.alpha, digits: 4, note: input.multiplicity === "none" ? "no adjustment" : input.multiplicity === "bonferroni" ? "Bonferroni, α/2" : "Holm's first step, α/2" },
-            { label: "Power for the interaction at this size", value: r.interaction.power, digits: 4 },
-            ...(r.detectableMainEffect === null ? [] : [{ label: "Smallest main effect detectable at this size", value: r.detectableMainEffect, digits: 4, note: `with ${pct(input.power, 0)} power at level ${a.alpha}` }]),
+    designSection([
+      { label: "Evaluable per cell", value: r.nPerCell, key: true, note: r.sizedBy ? `set by the main effect of ${r.sizedBy}` : undefined },
+      { label: "Total evaluable", value: r.total, key: true },
+      { label: "Total to enrol after dropout", value: r.enrolledTotal, key: true },
+      { label: "Power, main effect of A", value: a.power, digits: 4, key: true },
+      { label: "Power, main effect of B", value: b.power, digits: 4, key: true },
+      { label: "Total to detect the interaction", value: r.interaction.requiredTotal === null ? `> ${4 * MAX_PER_CELL}` : r.interaction.requiredTotal, key: true },
+      { label: "Level of each main-effect test", value: a.alpha, digits: 4, note: input.multiplicity === "none" ? "no adjustment" : input.multiplicity === "bonferroni" ? "Bonferroni, α/2" : "Holm's first step, α/2" },
+      { label: "Power for the interaction at this size", value: r.interaction.power, digits: 4 },
+      ...(r.detectableMainEffect === null ? [] : [{ label: "Smallest main effect detectable at this size", value: r.detectableMainEffect, digits: 4, note: `with ${pct(input.power, 0)} power at level ${a.alpha}` }]),
+    ], [
+      {
+        kind: "table",
+        table: {
+          id: "effects",
+          caption: "Sample size for each question, beside the interaction",
+          columns: [
+            { key: "question", label: "Question" },
+            { key: "effect", label: "Effect", digits: 4 },
+            { key: "alpha", label: "Level", digits: 4 },
+            { key: "perCell", label: "Needed per cell" },
+            { key: "total", label: "Needed in total" },
+            { key: "power", label: "Power at this design", digits: 4 },
+            { key: "holm", label: "Power under Holm", digits: 4 },
           ],
+          rows: [
+            ...r.mainEffects.map((m) => [`Main effect of ${m.factor} (margins)`, m.effect, m.alpha, requiredCell(m.requiredPerCell), m.requiredPerCell === null ? null : 4 * m.requiredPerCell, m.power, m.powerUnderHolm]),
+            ["Interaction (AB − A) − (B − neither)", r.interaction.effect, r.interaction.alpha, requiredCell(r.interaction.requiredPerCell), r.interaction.requiredTotal, r.interaction.power, null],
+          ],
+          note: `The interaction estimate ȳ_AB − ȳ_A − ȳ_B + ȳ_0 has variance ${input.outcome === "means" ? "4σ²/m" : "Σ p(1 − p)/m"} with m per cell, four times that of a main effect${input.outcome === "means" ? " (σ²/m)" : " (about)"}: an interaction as large as a main effect needs about four times the participants.`,
         },
-        {
-          kind: "table",
-          table: {
-            id: "effects",
-            caption: "Sample size for each question, beside the interaction",
-            columns: [
-              { key: "question", label: "Question" },
-              { key: "effect", label: "Effect", digits: 4 },
-              { key: "alpha", label: "Level", digits: 4 },
-              { key: "perCell", label: "Needed per cell" },
-              { key: "total", label: "Needed in total" },
-              { key: "power", label: "Power at this design", digits: 4 },
-              { key: "holm", label: "Power under Holm", digits: 4 },
-            ],
-            rows: [
-              ...r.mainEffects.map((m) => [`Main effect of ${m.factor} (margins)`, m.effect, m.alpha, requiredCell(m.requiredPerCell), m.requiredPerCell === null ? null : 4 * m.requiredPerCell, m.power, m.powerUnderHolm]),
-              ["Interaction (AB − A) − (B − neither)", r.interaction.effect, r.interaction.alpha, requiredCell(r.interaction.requiredPerCell), r.interaction.requiredTotal, r.interaction.power, null],
-            ],
-            note: `The interaction estimate ȳ_AB − ȳ_A − ȳ_B + ȳ_0 has variance ${input.outcome === "means" ? "4σ²/m" : "Σ p(1 − p)/m"} with m per cell, four times that of a main effect${input.outcome === "means" ? " (σ²/m)" : " (about)"}: an interaction as large as a main effect needs about four times the participants.`,
-          },
+      },
+      {
+        kind: "table",
+        table: {
+          id: "cells",
+          caption: "Participants per cell",
+          columns: [
+            { key: "cell", label: "Cell" },
+            { key: "evaluable", label: "Evaluable" },
+            { key: "enrolled", label: "To enrol" },
+            ...(input.outcome === "proportions" ? [{ key: "rate", label: "Rate assumed, no interaction", digits: 3 }] : []),
+          ],
+          rows: (["Neither", "A alone", "B alone", "A and B"] as const).map((cell, i) => {
+            const base: Array<string | number> = [cell, r.nPerCell, r.enrolledPerCell];
+            if (input.outcome === "proportions") {
+              const rates = [input.controlRate!, input.rateA!, input.rateB!, input.rateA! + input.rateB! - input.controlRate!];
+              base.push(rates[i]!);
+            }
+            return base;
+          }),
         },
-        {
-          kind: "table",
-          table: {
-            id: "cells",
-            caption: "Participants per cell",
-            columns: [
-              { key: "cell", label: "Cell" },
-              { key: "evaluable", label: "Evaluable" },
-              { key: "enrolled", label: "To enrol" },
-              ...(input.outcome === "proportions" ? [{ key: "rate", label: "Rate assumed, no interaction", digits: 3 }] : []),
-            ],
-            rows: (["Neither", "A alone", "B alone", "A and B"] as const).map((cell, i) => {
-              const base: Array<string | number> = [cell, r.nPerCell, r.enrolledPerCell];
-              if (input.outcome === "proportions") {
-                const rates = [input.controlRate!, input.rateA!, input.rateB!, input.rateA! + input.rateB! - input.controlRate!];
-                base.push(rates[i]!);
-              }
-              return base;
-            }),
-          },
-        },
-      ],
-    },
+      },
+    ]),
     {
       id: "operating-characteristics",
       title: "Power against sample size",
@@ -464,7 +457,7 @@ function documentFactorial(input: Factorial2x2Input, r: Factorial2x2Result): Sec
         },
       ],
     },
-    { id: "protocol", title: "Statistical paragraph for the protocol", blocks: [{ kind: "protocol", text: protocol }] },
+    protocolSection(protocol),
   ];
 }
 

@@ -26,6 +26,7 @@
  */
 import { z } from "zod";
 import type { Design } from "./design.js";
+import { protocolSection } from "./shared/reportSections.js";
 import type { Block, Section } from "../report/document.js";
 import {
   type GroupSequentialPlan, type GroupSequentialSpec, equallySpaced, planGroupSequential, recomputeAtObservedLooks,
@@ -179,7 +180,7 @@ function documentGroupSequential(input: GroupSequentialInput, r: GroupSequential
     }
     sections.unshift({ id: "observed-looks", title: "Boundaries at the looks actually held", blocks });
   }
-  sections.push({ id: "protocol", title: "Statistical paragraph for the protocol", blocks: [{ kind: "protocol", text: protocolText(input, r.planned) }] });
+  sections.push(protocolSection(protocolText(input, r.planned)));
   return sections;
 }
 

@@ -36,6 +36,7 @@ import { normalCdf, normalQuantile } from "../stats/normal.js";
 import { findRoot } from "../stats/rootFinding.js";
 import { type AccrualModel, enrolledFraction, eventProbability, expectedEventFraction } from "../stats/eventProbability.js";
 import { type ArmSizes, armsFromControl, curveSizes, detectableEffect } from "./shared/sizing.js";
+import { designSection, protocolSection } from "./shared/reportSections.js";
 import { checkComparativeCommon, comparativeCommonFields } from "./shared/fields.js";
 import {
   type InterimLooksResult, interimLooksField, interimLooksProtocolText, interimLooksSections, planInterimLooks, refineInterimTest,
@@ -373,47 +374,39 @@ function documentTimeToEvent(input: TimeToEventInput, r: TimeToEventResult): Sec
       : `The primary analysis is ${describeTest(input)} with ${allocation}. With ${r.events} events, the smallest hazard ratio detectable with ${pct(input.power, 0)} power is ${fmt(r.hazardRatio, 3)} (${methodCitation(input.method)}). ${enrolment}`;
   const other = input.method === "schoenfeld" ? { label: "Events by Freedman 1982", value: r.freedmanEvents } : { label: "Events by Schoenfeld 1983", value: r.schoenfeldEvents };
   return [
-    {
-      id: "design",
-      title: "Design",
-      blocks: [
-        {
-          kind: "facts",
-          facts: [
-            { label: "Events required", value: r.events, key: true, note: methodCitation(input.method) },
-            { label: "Control arm to enrol (n1)", value: r.n1, key: true },
-            { label: "Experimental arm to enrol (n2)", value: r.n2, key: true },
-            { label: "Total to enrol", value: r.total, key: true },
-            { label: "Power", value: r.power, digits: 4, key: true },
-            { label: "Events expected at", value: r.analysisYears, digits: 2, unit: "years", key: true, note: "after the first participant enters" },
-            { label: "Hazard ratio", value: r.hazardRatio, digits: 4 },
-            { label: other.label, value: other.value, note: "for comparison; not used" },
-            { label: "Probability of an event, control", value: r.eventProbabilityControl, digits: 4 },
-            { label: "Probability of an event, experimental", value: r.eventProbabilityExperimental, digits: 4 },
-            { label: "Study duration", value: r.studyYears, digits: 2, unit: "years", note: "accrual plus follow-up" },
+    designSection([
+      { label: "Events required", value: r.events, key: true, note: methodCitation(input.method) },
+      { label: "Control arm to enrol (n1)", value: r.n1, key: true },
+      { label: "Experimental arm to enrol (n2)", value: r.n2, key: true },
+      { label: "Total to enrol", value: r.total, key: true },
+      { label: "Power", value: r.power, digits: 4, key: true },
+      { label: "Events expected at", value: r.analysisYears, digits: 2, unit: "years", key: true, note: "after the first participant enters" },
+      { label: "Hazard ratio", value: r.hazardRatio, digits: 4 },
+      { label: other.label, value: other.value, note: "for comparison; not used" },
+      { label: "Probability of an event, control", value: r.eventProbabilityControl, digits: 4 },
+      { label: "Probability of an event, experimental", value: r.eventProbabilityExperimental, digits: 4 },
+      { label: "Study duration", value: r.studyYears, digits: 2, unit: "years", note: "accrual plus follow-up" },
+    ], [
+      {
+        kind: "table",
+        table: {
+          id: "arms",
+          caption: "Participants and expected events per arm at the end of follow-up",
+          columns: [
+            { key: "arm", label: "Arm" },
+            { key: "median", label: "Median time to event", digits: 2, unit: "years" },
+            { key: "probability", label: "Probability of an event", digits: 4 },
+            { key: "enrolled", label: "To enrol" },
+            { key: "events", label: "Expected events", digits: 1 },
+          ],
+          rows: [
+            ["Control", input.controlMedianYears, r.eventProbabilityControl, r.n1, r.n1 * r.eventProbabilityControl],
+            ["Experimental", r.experimentalMedianYears, r.eventProbabilityExperimental, r.n2, r.n2 * r.eventProbabilityExperimental],
+            ["Total", null, r.eventProbabilityOverall, r.total, r.expectedEventsAtEnd],
           ],
         },
-        {
-          kind: "table",
-          table: {
-            id: "arms",
-            caption: "Participants and expected events per arm at the end of follow-up",
-            columns: [
-              { key: "arm", label: "Arm" },
-              { key: "median", label: "Median time to event", digits: 2, unit: "years" },
-              { key: "probability", label: "Probability of an event", digits: 4 },
-              { key: "enrolled", label: "To enrol" },
-              { key: "events", label: "Expected events", digits: 1 },
-            ],
-            rows: [
-              ["Control", input.controlMedianYears, r.eventProbabilityControl, r.n1, r.n1 * r.eventProbabilityControl],
-              ["Experimental", r.experimentalMedianYears, r.eventProbabilityExperimental, r.n2, r.n2 * r.eventProbabilityExperimental],
-              ["Total", null, r.eventProbabilityOverall, r.total, r.expectedEventsAtEnd],
-            ],
-          },
-        },
-      ],
-    },
+      },
+    ]),
     {
       id: "calendar",
       title: "When the analysis will happen",
@@ -489,7 +482,7 @@ function documentTimeToEvent(input: TimeToEventInput, r: TimeToEventResult): Sec
       ],
     },
     ...(input.interimLooks && r.interimLooks ? interimLooksSections(input.interimLooks, input.sides, r.interimLooks) : []),
-    { id: "protocol", title: "Statistical paragraph for the protocol", blocks: [{ kind: "protocol", text: input.interimLooks && r.interimLooks && r.interimEnrolment ? `${protocol} ${interimLooksProtocolText(input.interimLooks, input.sides, r.interimLooks)} To reach the maximum events, ${r.interimEnrolment.n1 + r.interimEnrolment.n2} participants are enrolled (${r.interimEnrolment.n1} control, ${r.interimEnrolment.n2} experimental), the final analysis expected about ${fmt(r.interimEnrolment.analysisYears, 1)} years after the first participant enters.` : protocol }] },
+    protocolSection(input.interimLooks && r.interimLooks && r.interimEnrolment ? `${protocol} ${interimLooksProtocolText(input.interimLooks, input.sides, r.interimLooks)} To reach the maximum events, ${r.interimEnrolment.n1 + r.interimEnrolment.n2} participants are enrolled (${r.interimEnrolment.n1} control, ${r.interimEnrolment.n2} experimental), the final analysis expected about ${fmt(r.interimEnrolment.analysisYears, 1)} years after the first participant enters.` : protocol),
   ];
 }
 

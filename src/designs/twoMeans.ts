@@ -28,9 +28,9 @@ import {
   type ArmSizes, armsFromControl, detectableEffect, inflateForDropout, powerCurve, smallestSampleSize,
 } from "./shared/sizing.js";
 import { comparativeCommonFields } from "./shared/fields.js";
-import {
-  type InterimLooksResult, interimLooksField, interimLooksProtocolText, interimLooksSections, planInterimLooks, refineInterimTest,
-} from "./shared/interimLooks.js";
+import { type InterimLooksResult, interimLooksField, planInterimLooks, refineInterimTest } from "./shared/interimLooks.js";
+import { designSection } from "./shared/reportSections.js";
+import { closingSections, powerCurveChart, powerCurveTable, twoArmFacts, twoArmTable } from "./shared/comparativeSections.js";
 
 const MAX_PER_ARM = 100000;
 
@@ -239,77 +239,27 @@ function documentTwoMeans(input: TwoMeansInput, r: TwoMeansResult): Section[] {
       ? `With ${r.n1} participants in the control arm and ${r.n2} in the experimental arm, ${describeHypothesis(input)} based on ${methodName} has ${fmt(r.power * 100, 1)}% power when the true difference in means is ${r.delta} and the common standard deviation is ${input.sd}.${dropoutText}`
       : `A sample size of ${r.n1} in the control arm and ${r.n2} in the experimental arm (${r.total} in total) gives ${fmt(r.power * 100, 1)}% power (target ${fmt(input.power * 100, 0)}%) to detect a difference in means of ${r.delta} (${fmt(r.standardizedEffect, 3)} standard deviations, common standard deviation ${input.sd}), using ${describeHypothesis(input)} based on ${methodName}.${dropoutText}`;
   return [
-    {
-      id: "design",
-      title: "Design",
-      blocks: [
-        {
-          kind: "facts",
-          facts: [
-            { label: "Control arm (n1)", value: r.n1, key: true },
-            { label: "Experimental arm (n2)", value: r.n2, key: true },
-            { label: "Total evaluable", value: r.total, key: true },
-            { label: "Total to enrol after dropout", value: r.enrolledTotal, key: true },
-            { label: "Achieved power", value: r.power, digits: 4, key: true },
-            { label: "Difference in means", value: r.delta, digits: 4 },
-            { label: "Standardized effect (δ/σ)", value: r.standardizedEffect, digits: 4 },
-            { label: "Critical value", value: r.criticalValue, digits: 4, note: input.method === "exact-t" ? `t on ${r.degreesOfFreedom} degrees of freedom` : "standard normal" },
-          ],
-        },
-        {
-          kind: "table",
-          table: {
-            id: "arms",
-            caption: "Participants per arm",
-            columns: [
-              { key: "arm", label: "Arm" },
-              { key: "evaluable", label: "Evaluable" },
-              { key: "enrolled", label: "To enrol" },
-            ],
-            rows: [
-              ["Control", r.n1, r.enrolled1],
-              ["Experimental", r.n2, r.enrolled2],
-              ["Total", r.total, r.enrolledTotal],
-            ],
-          },
-        },
-      ],
-    },
+    designSection([
+      ...twoArmFacts(r),
+      { label: "Difference in means", value: r.delta, digits: 4 },
+      { label: "Standardized effect (δ/σ)", value: r.standardizedEffect, digits: 4 },
+      { label: "Critical value", value: r.criticalValue, digits: 4, note: input.method === "exact-t" ? `t on ${r.degreesOfFreedom} degrees of freedom` : "standard normal" },
+    ], [twoArmTable(r)]),
     {
       id: "operating-characteristics",
       title: "Power against sample size",
       blocks: [
-        {
-          kind: "chart",
-          chart: {
-            id: "power-curve",
-            title: `Power against total sample size (difference ${fmt(r.delta, 3)}, SD ${input.sd})`,
-            xLabel: "Total evaluable participants",
-            yLabel: "Power",
-            yDomain: [0, 1],
-            series: [{ name: "Power", points: r.powerCurve, style: "line" }],
-            markers: [
-              { axis: "y", value: input.power, label: `target ${input.power}` },
-              { axis: "x", value: r.total, label: `n = ${r.total}` },
-            ],
-          },
-        },
-        {
-          kind: "table",
-          table: {
-            id: "power-curve",
-            caption: "Power at other sample sizes",
-            columns: [
-              { key: "total", label: "Total evaluable" },
-              { key: "power", label: "Power", digits: 4 },
-            ],
-            rows: r.powerCurve.map(([n, p]) => [n, p]),
-          },
-        },
+        powerCurveChart({
+          title: `Power against total sample size (difference ${fmt(r.delta, 3)}, SD ${input.sd})`,
+          xLabel: "Total evaluable participants",
+          series: [{ name: "Power", points: r.powerCurve, style: "line" }],
+          target: input.power,
+          total: r.total,
+        }),
+        powerCurveTable(r.powerCurve, "Total evaluable"),
       ],
     },
-    ...(input.interimLooks && r.interimLooks ? interimLooksSections(input.interimLooks, input.sides, r.interimLooks) : []),
-    { id: "protocol", title: "Statistical paragraph for the protocol", blocks: [{ kind: "protocol", text: input.interimLooks && r.interimLooks ? `${protocol} ${interimLooksProtocolText(input.interimLooks, input.sides, r.interimLooks)}` : protocol }] },
+    ...closingSections(input.interimLooks, input.sides, r.interimLooks, protocol),
   ];
 }
 

@@ -42,9 +42,9 @@ import {
 } from "./shared/sizing.js";
 import { checkComparativeCommon, comparativeCommonFields, groupSizeField, probabilityField, solveForField } from "./shared/fields.js";
 import { type ProportionsTest, nullDifference, twoProportionsPower } from "./shared/twoProportionsPower.js";
-import {
-  type InterimLooksResult, interimLooksField, interimLooksProtocolText, interimLooksSections, planInterimLooks, refineInterimTest,
-} from "./shared/interimLooks.js";
+import { type InterimLooksResult, interimLooksField, planInterimLooks, refineInterimTest } from "./shared/interimLooks.js";
+import { designSection } from "./shared/reportSections.js";
+import { closingSections, effectCurveChart, powerCurveChart, powerCurveTable, twoArmFacts, twoArmTable } from "./shared/comparativeSections.js";
 
 const MAX_PER_ARM = 100000;
 /** Largest arm the exact sample-size scan visits. */
@@ -335,35 +335,13 @@ function documentTwoProportions(input: TwoProportionsInput, r: TwoProportionsRes
   if (r.normalPowerCurve) series.push({ name: "Normal approximation", points: r.normalPowerCurve, style: "line" });
   const curveRows = r.exactSearch ? thin(r.powerCurve, 30) : r.powerCurve;
   const sections: Section[] = [
-    {
-      id: "design",
-      title: "Design",
-      blocks: [
-        {
-          kind: "facts",
-          facts: [
-            { label: "Control arm (n1)", value: r.n1, key: true },
-            { label: "Experimental arm (n2)", value: r.n2, key: true },
-            { label: "Total evaluable", value: r.total, key: true },
-            { label: "Total to enrol after dropout", value: r.enrolledTotal, key: true },
-            { label: "Achieved power", value: r.power, digits: 4, key: true },
-            { label: "Control proportion (p1)", value: r.p1, digits: 4 },
-            { label: "Experimental proportion (p2)", value: r.p2, digits: 4 },
-            { label: "Difference (p2 − p1)", value: r.difference, digits: 4 },
-            ...(r.criticalValue !== null ? [{ label: "Critical value", value: r.criticalValue, digits: 4, note: "standard normal" }] : []),
-          ],
-        },
-        {
-          kind: "table",
-          table: {
-            id: "arms",
-            caption: "Participants per arm",
-            columns: [{ key: "arm", label: "Arm" }, { key: "evaluable", label: "Evaluable" }, { key: "enrolled", label: "To enrol" }],
-            rows: [["Control", r.n1, r.enrolled1], ["Experimental", r.n2, r.enrolled2], ["Total", r.total, r.enrolledTotal]],
-          },
-        },
-      ],
-    },
+    designSection([
+      ...twoArmFacts(r),
+      { label: "Control proportion (p1)", value: r.p1, digits: 4 },
+      { label: "Experimental proportion (p2)", value: r.p2, digits: 4 },
+      { label: "Difference (p2 − p1)", value: r.difference, digits: 4 },
+      ...(r.criticalValue !== null ? [{ label: "Critical value", value: r.criticalValue, digits: 4, note: "standard normal" }] : []),
+    ], [twoArmTable(r)]),
   ];
   if (e) {
     sections.push({
@@ -389,43 +367,18 @@ function documentTwoProportions(input: TwoProportionsInput, r: TwoProportionsRes
       id: "operating-characteristics",
       title: "Power against sample size and effect",
       blocks: [
-        {
-          kind: "chart",
-          chart: {
-            id: "power-curve",
-            title: `Power against total sample size (p1 ${r.p1}, p2 ${fmt(r.p2, 3)})`,
-            xLabel: "Total evaluable participants",
-            yLabel: "Power",
-            yDomain: [0, 1],
-            series,
-            markers: [{ axis: "y", value: input.power, label: `target ${input.power}` }, { axis: "x", value: r.total, label: `n = ${r.total}` }],
-          },
-        },
-        {
-          kind: "table",
-          table: {
-            id: "power-curve",
-            caption: "Power at other sample sizes",
-            columns: [{ key: "total", label: "Total evaluable" }, { key: "power", label: "Power", digits: 4 }],
-            rows: curveRows.map(([n, p]) => [n, p]),
-          },
-        },
-        {
-          kind: "chart",
-          chart: {
-            id: "effect-curve",
-            title: `Power against the experimental proportion (${r.n1} control, ${r.n2} experimental)`,
-            xLabel: "True experimental proportion",
-            yLabel: "Power",
-            yDomain: [0, 1],
-            series: [{ name: "Power", points: [...r.effectCurve].sort((a, b) => a[0] - b[0]), style: "line" }],
-            markers: [{ axis: "x", value: r.p2, label: `p2 = ${fmt(r.p2, 3)}` }, { axis: "y", value: input.power, label: `target ${input.power}` }],
-          },
-        },
+        powerCurveChart({ title: `Power against total sample size (p1 ${r.p1}, p2 ${fmt(r.p2, 3)})`, xLabel: "Total evaluable participants", series, target: input.power, total: r.total }),
+        powerCurveTable(curveRows, "Total evaluable"),
+        effectCurveChart({
+          title: `Power against the experimental proportion (${r.n1} control, ${r.n2} experimental)`,
+          xLabel: "True experimental proportion",
+          points: r.effectCurve,
+          effect: { axis: "x", value: r.p2, label: `p2 = ${fmt(r.p2, 3)}` },
+          target: input.power,
+        }),
       ],
     },
-    ...(input.interimLooks && r.interimLooks ? interimLooksSections(input.interimLooks, input.sides, r.interimLooks) : []),
-    { id: "protocol", title: "Statistical paragraph for the protocol", blocks: [{ kind: "protocol", text: input.interimLooks && r.interimLooks ? `${protocol} ${interimLooksProtocolText(input.interimLooks, input.sides, r.interimLooks)}` : protocol }] },
+    ...closingSections(input.interimLooks, input.sides, r.interimLooks, protocol),
   );
   return sections;
 }
