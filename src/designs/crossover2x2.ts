@@ -35,7 +35,7 @@ import { noncentralTCdf, noncentralTSurvival } from "../stats/noncentralT.js";
 import { type ArmSizes, detectableEffect, effectCurve, inflateForDropout, powerCurve, smallestSampleSize } from "./shared/sizing.js";
 import { checkComparativeCommon, comparativeCommonFields, groupSizeField, solveForField } from "./shared/fields.js";
 import { designSection, protocolSection } from "./shared/reportSections.js";
-import { effectCurveChart, powerCurveChart, powerCurveTable } from "./shared/comparativeSections.js";
+import { type TwoArmCounts, effectCurveChart, powerCurveChart, powerCurveTable } from "./shared/comparativeSections.js";
 
 const MAX_PER_SEQUENCE = 100000;
 
@@ -87,15 +87,8 @@ const schema = z
 
 export type Crossover2x2Input = z.output<typeof schema>;
 
-export interface Crossover2x2Result {
-  /** Subjects per sequence (AB, BA) completing both periods. */
-  n1: number;
-  n2: number;
-  total: number;
-  enrolled1: number;
-  enrolled2: number;
-  enrolledTotal: number;
-  power: number;
+/** TwoArmCounts, with n1 and n2 the subjects per sequence (AB, BA) completing both periods. */
+export interface Crossover2x2Result extends TwoArmCounts {
   delta: number;
   /** SE of the period-adjusted treatment difference. */
   standardError: number;

@@ -30,7 +30,7 @@ import {
 import { comparativeCommonFields } from "./shared/fields.js";
 import { type InterimLooksResult, interimLooksField, planInterimLooks, refineInterimTest } from "./shared/interimLooks.js";
 import { designSection } from "./shared/reportSections.js";
-import { closingSections, powerCurveChart, powerCurveTable, twoArmFacts, twoArmTable } from "./shared/comparativeSections.js";
+import { type TwoArmCounts, closingSections, powerCurveChart, powerCurveTable, twoArmFacts, twoArmTable } from "./shared/comparativeSections.js";
 
 const MAX_PER_ARM = 100000;
 
@@ -83,14 +83,8 @@ const schema = z
 
 export type TwoMeansInput = z.output<typeof schema>;
 
-export interface TwoMeansResult {
-  n1: number;
-  n2: number;
-  total: number;
-  enrolled1: number;
-  enrolled2: number;
-  enrolledTotal: number;
-  power: number;
+/** TwoArmCounts (arm sizes, enrolment after dropout, achieved power) and the design's own figures. */
+export interface TwoMeansResult extends TwoArmCounts {
   /** The difference used for the power (the solved one when solving for the difference). */
   delta: number;
   standardizedEffect: number;

@@ -44,7 +44,7 @@ import { checkComparativeCommon, comparativeCommonFields, groupSizeField, probab
 import { type ProportionsTest, nullDifference, twoProportionsPower } from "./shared/twoProportionsPower.js";
 import { type InterimLooksResult, interimLooksField, planInterimLooks, refineInterimTest } from "./shared/interimLooks.js";
 import { designSection } from "./shared/reportSections.js";
-import { closingSections, effectCurveChart, powerCurveChart, powerCurveTable, twoArmFacts, twoArmTable } from "./shared/comparativeSections.js";
+import { type TwoArmCounts, closingSections, effectCurveChart, powerCurveChart, powerCurveTable, twoArmFacts, twoArmTable } from "./shared/comparativeSections.js";
 
 const MAX_PER_ARM = 100000;
 /** Largest arm the exact sample-size scan visits. */
@@ -139,14 +139,8 @@ export interface ExactSearch {
   boundN1: number;
 }
 
-export interface TwoProportionsResult {
-  n1: number;
-  n2: number;
-  total: number;
-  enrolled1: number;
-  enrolled2: number;
-  enrolledTotal: number;
-  power: number;
+/** TwoArmCounts (arm sizes, enrolment after dropout, achieved power) and the design's own figures. */
+export interface TwoProportionsResult extends TwoArmCounts {
   /** Proportions as entered (or solved), on the scale the user gave. */
   p1: number;
   p2: number;
