@@ -1,21 +1,9 @@
 // The AB/BA crossover over HTTP: a frozen calculation, 400s naming the bad
 // field with a sentence, and 422 naming the bound on the sequence size.
-import { SELF } from "cloudflare:test";
 import { describe, expect, it } from "vitest";
+import { type Problem, postCalculation } from "../support/http.js";
 
-interface Problem {
-  status: number;
-  detail: string;
-  bound?: number;
-  errors?: Array<{ path: string; message: string }>;
-}
-
-const post = (inputs: unknown): Promise<Response> =>
-  SELF.fetch("https://example.com/api/v1/designs/crossover-2x2/calculations", {
-    method: "POST",
-    headers: { "content-type": "application/json" },
-    body: JSON.stringify({ inputs }),
-  });
+const post = (inputs: unknown): Promise<Response> => postCalculation("crossover-2x2", inputs);
 
 describe("crossover-2x2 over HTTP", () => {
   it("freezes a calculation whose normal total is 2σw²(z + z)²/δ² rounded up to even (Julious 2004)", async () => {

@@ -1,22 +1,9 @@
 // The two-proportions design over HTTP: a frozen calculation, 400s naming the
 // bad field with a sentence, and 422 naming the bound of the exact search.
-import { SELF } from "cloudflare:test";
 import { describe, expect, it } from "vitest";
+import { type Problem, postCalculation } from "../support/http.js";
 
-interface Problem {
-  status: number;
-  detail: string;
-  bound?: number;
-  field?: string;
-  errors?: Array<{ path: string; message: string }>;
-}
-
-const post = (inputs: unknown): Promise<Response> =>
-  SELF.fetch("https://example.com/api/v1/designs/two-proportions/calculations", {
-    method: "POST",
-    headers: { "content-type": "application/json" },
-    body: JSON.stringify({ inputs }),
-  });
+const post = (inputs: unknown): Promise<Response> => postCalculation("two-proportions", inputs);
 
 describe("two-proportions over HTTP", () => {
   it("freezes a calculation (97 per arm for 0.40 against 0.60, Fleiss, Levin & Paik 2003, eq. 4.14)", async () => {

@@ -3,6 +3,7 @@
 // the normal-theory formula n = 2σw²(z_{1-α/2} + z_{1-β})²/δ² (Julious 2004, §4.1).
 import { describe, expect, it } from "vitest";
 import { expectClose, loadFixture } from "../../support/fixtures.js";
+import { schemaIssues } from "../../support/validation.js";
 import { InfeasibleDesignError } from "../../../src/designs/design.js";
 import { crossover2x2, crossoverPower, crossoverStandardError } from "../../../src/designs/crossover2x2.js";
 import { normalQuantile } from "../../../src/stats/normal.js";
@@ -10,11 +11,7 @@ import { normalQuantile } from "../../../src/stats/normal.js";
 const parse = (inputs: Record<string, unknown>) => crossover2x2.input.parse(inputs);
 const compute = (inputs: Record<string, unknown>) => crossover2x2.compute(parse(inputs));
 
-function issuesOf(inputs: Record<string, unknown>): Array<{ path: string; message: string }> {
-  const result = crossover2x2.input.safeParse(inputs);
-  expect(result.success).toBe(false);
-  return result.success ? [] : result.error.issues.map((i) => ({ path: i.path.join("."), message: i.message }));
-}
+const issuesOf = (inputs: Record<string, unknown>) => schemaIssues(crossover2x2.input, inputs);
 
 describe("exact t against R pt with ncp", () => {
   it("power at given sequence sizes", () => {

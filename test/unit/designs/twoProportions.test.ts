@@ -3,6 +3,7 @@
 // a handbook value, and a seeded Monte Carlo of Fisher's exact test.
 import { describe, expect, it } from "vitest";
 import { expectClose, loadFixture } from "../../support/fixtures.js";
+import { schemaIssues } from "../../support/validation.js";
 import { InfeasibleDesignError } from "../../../src/designs/design.js";
 import { EXACT_SEARCH_MAX_PER_ARM, twoProportions, twoProportionsDesignPower } from "../../../src/designs/twoProportions.js";
 import { inflateArms, scanSampleSizes } from "../../../src/designs/shared/sizing.js";
@@ -15,11 +16,7 @@ import { createRandom } from "../../../src/stats/random.js";
 const parse = (inputs: Record<string, unknown>) => twoProportions.input.parse(inputs);
 const compute = (inputs: Record<string, unknown>) => twoProportions.compute(parse(inputs));
 
-function issuesOf(inputs: Record<string, unknown>): Array<{ path: string; message: string }> {
-  const result = twoProportions.input.safeParse(inputs);
-  expect(result.success).toBe(false);
-  return result.success ? [] : result.error.issues.map((i) => ({ path: i.path.join("."), message: i.message }));
-}
+const issuesOf = (inputs: Record<string, unknown>) => schemaIssues(twoProportions.input, inputs);
 
 describe("normal approximation against R stats::power.prop.test", () => {
   const f = loadFixture<{ p1: number; p2: number; alpha: number; sides: 1 | 2; power: number; nR: number; powerAtCeiling: number; powerBelow: number }>(
