@@ -32,10 +32,10 @@ import type { Section } from "../report/document.js";
 import { normalCdf, normalQuantile } from "../stats/normal.js";
 import { studentTQuantile } from "../stats/studentT.js";
 import { noncentralTCdf, noncentralTSurvival } from "../stats/noncentralT.js";
-import { type ArmSizes, detectableEffect, effectCurve, inflateForDropout, powerCurve, smallestSampleSize } from "./shared/sizing.js";
+import { type ArmSizes, detectableEffect, effectCurve, powerCurve, smallestSampleSize } from "./shared/sizing.js";
 import { checkComparativeCommon, comparativeCommonFields, groupSizeField, solveForField } from "./shared/fields.js";
 import { designSection, protocolSection } from "./shared/reportSections.js";
-import { type TwoArmCounts, effectCurveChart, powerCurveChart, powerCurveTable } from "./shared/comparativeSections.js";
+import { type TwoArmCounts, effectCurveChart, twoArmCounts, powerCurveChart, powerCurveTable } from "./shared/comparativeSections.js";
 
 const MAX_PER_SEQUENCE = 100000;
 
@@ -151,20 +151,12 @@ export function computeCrossover2x2(input: Crossover2x2Input): Crossover2x2Resul
   }
   const df = sequences.n1 + sequences.n2 - 2;
   const p = input.hypothesis === "superiority" && input.sides === 2 ? 1 - input.alpha / 2 : 1 - input.alpha;
-  const enrolled1 = inflateForDropout(sequences.n1, input.dropout);
-  const enrolled2 = inflateForDropout(sequences.n2, input.dropout);
   // The effect curve runs from the null difference to twice the design's distance from it, on the design's side.
   const nullDelta = input.hypothesis === "non-inferiority" ? -input.margin! : 0;
   const direction = input.hypothesis === "superiority" && delta < 0 ? -1 : 1;
   const span = direction * delta - nullDelta;
   return {
-    n1: sequences.n1,
-    n2: sequences.n2,
-    total: sequences.n1 + sequences.n2,
-    enrolled1,
-    enrolled2,
-    enrolledTotal: enrolled1 + enrolled2,
-    power: powerAt(sequences, delta),
+    ...twoArmCounts(sequences, input.dropout, powerAt(sequences, delta)),
     delta,
     standardError: crossoverStandardError(sd, sequences),
     criticalValue: input.method === "exact-t" ? studentTQuantile(p, df) : normalQuantile(p),

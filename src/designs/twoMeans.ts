@@ -25,12 +25,12 @@ import { noncentralTCdf, noncentralTSurvival } from "../stats/noncentralT.js";
 import { integrate } from "../stats/quadrature.js";
 import { logGamma } from "../stats/gamma.js";
 import {
-  type ArmSizes, armsFromControl, detectableEffect, inflateForDropout, powerCurve, smallestSampleSize,
+  type ArmSizes, armsFromControl, detectableEffect, powerCurve, smallestSampleSize,
 } from "./shared/sizing.js";
 import { comparativeCommonFields } from "./shared/fields.js";
 import { type InterimLooksResult, interimLooksField, planInterimLooks, refineInterimTest } from "./shared/interimLooks.js";
 import { designSection } from "./shared/reportSections.js";
-import { type TwoArmCounts, closingSections, powerCurveChart, powerCurveTable, twoArmFacts, twoArmTable } from "./shared/comparativeSections.js";
+import { type TwoArmCounts, closingSections, twoArmCounts, powerCurveChart, powerCurveTable, twoArmFacts, twoArmTable } from "./shared/comparativeSections.js";
 
 const MAX_PER_ARM = 100000;
 
@@ -168,17 +168,9 @@ export function computeTwoMeans(input: TwoMeansInput): TwoMeansResult {
   }
   const power = twoMeansPower(input, arms, delta);
   const df = arms.n1 + arms.n2 - 2;
-  const enrolled1 = inflateForDropout(arms.n1, input.dropout);
-  const enrolled2 = inflateForDropout(arms.n2, input.dropout);
   const ratio = arms.n2 / arms.n1;
   return {
-    n1: arms.n1,
-    n2: arms.n2,
-    total: arms.n1 + arms.n2,
-    enrolled1,
-    enrolled2,
-    enrolledTotal: enrolled1 + enrolled2,
-    power,
+    ...twoArmCounts(arms, input.dropout, power),
     delta,
     standardizedEffect: delta / input.sd,
     criticalValue: criticalValue(input, df),

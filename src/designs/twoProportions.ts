@@ -37,14 +37,14 @@ import { type Design, InfeasibleDesignError } from "./design.js";
 import type { ChartSeries, Section } from "../report/document.js";
 import { normalQuantile } from "../stats/normal.js";
 import {
-  type ArmSizes, type SizeScanResult, armsFromControl, curveSizes, effectCurve, inflateForDropout,
+  type ArmSizes, type SizeScanResult, armsFromControl, curveSizes, effectCurve,
   scanSampleSizes, smallestSampleSize,
 } from "./shared/sizing.js";
 import { checkComparativeCommon, comparativeCommonFields, groupSizeField, probabilityField, solveForField } from "./shared/fields.js";
 import { type ProportionsTest, nullDifference, twoProportionsPower } from "./shared/twoProportionsPower.js";
 import { type InterimLooksResult, interimLooksField, planInterimLooks, refineInterimTest } from "./shared/interimLooks.js";
 import { designSection } from "./shared/reportSections.js";
-import { type TwoArmCounts, closingSections, effectCurveChart, powerCurveChart, powerCurveTable, twoArmFacts, twoArmTable } from "./shared/comparativeSections.js";
+import { type TwoArmCounts, closingSections, twoArmCounts, effectCurveChart, powerCurveChart, powerCurveTable, twoArmFacts, twoArmTable } from "./shared/comparativeSections.js";
 
 const MAX_PER_ARM = 100000;
 /** Largest arm the exact sample-size scan visits. */
@@ -231,8 +231,6 @@ export function computeTwoProportions(input: TwoProportionsInput): TwoProportion
   const fixed = fixedDesign(input);
   const arms = fixed.arms;
   const power = fixed.scan ? (fixed.scan.stable ?? fixed.scan.first).power : twoProportionsDesignPower(input, arms, fixed.p2);
-  const enrolled1 = inflateForDropout(arms.n1, input.dropout);
-  const enrolled2 = inflateForDropout(arms.n2, input.dropout);
   const exact = input.method === "fisher-exact";
   const scan = fixed.scan;
   const exactSearch: ExactSearch | null = scan
@@ -256,13 +254,7 @@ export function computeTwoProportions(input: TwoProportionsInput): TwoProportion
     ? controlSizes.map((n1) => [toTotal(n1), powerOfControl(n1, "normal")])
     : null;
   return {
-    n1: arms.n1,
-    n2: arms.n2,
-    total: arms.n1 + arms.n2,
-    enrolled1,
-    enrolled2,
-    enrolledTotal: enrolled1 + enrolled2,
-    power,
+    ...twoArmCounts(arms, input.dropout, power),
     p1: input.p1,
     p2: fixed.p2,
     difference: fixed.p2 - input.p1,

@@ -5,6 +5,7 @@
  */
 import type { Block, ChartMarker, ChartSeries, Fact, Section } from "../../report/document.js";
 import { protocolSection } from "./reportSections.js";
+import { type ArmSizes, inflateForDropout } from "./sizing.js";
 import { type InterimLooksInput, type InterimLooksResult, interimLooksProtocolText, interimLooksSections } from "./interimLooks.js";
 
 export interface TwoArmCounts {
@@ -90,4 +91,11 @@ export function effectCurveChart(c: { title: string; xLabel: string; points: Arr
 export function closingSections(interimLooks: InterimLooksInput | undefined, sides: 1 | 2, looks: InterimLooksResult | undefined, protocol: string): Section[] {
   if (!interimLooks || !looks) return [protocolSection(protocol)];
   return [...interimLooksSections(interimLooks, sides, looks), protocolSection(`${protocol} ${interimLooksProtocolText(interimLooks, sides, looks)}`)];
+}
+
+/** The counts of a two-arm result from its evaluable sizes: each arm inflated for dropout on its own. */
+export function twoArmCounts(arms: ArmSizes, dropout: number, power: number): TwoArmCounts {
+  const enrolled1 = inflateForDropout(arms.n1, dropout);
+  const enrolled2 = inflateForDropout(arms.n2, dropout);
+  return { n1: arms.n1, n2: arms.n2, total: arms.n1 + arms.n2, enrolled1, enrolled2, enrolledTotal: enrolled1 + enrolled2, power };
 }
