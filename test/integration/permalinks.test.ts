@@ -6,6 +6,7 @@ import { SELF, env } from "cloudflare:test";
 import { PDFDocument } from "pdf-lib";
 import { describe, expect, it } from "vitest";
 import { catalog } from "../../src/designs/catalog.js";
+import { PDF_RENDERING_VERSION } from "../../src/api/permalinks.js";
 
 interface StoredRecord {
   id: string;
@@ -90,7 +91,7 @@ describe("one calculation in every format", async () => {
     const first = await get(`/c/${record.id}.pdf`);
     expect(first.headers.get("x-trialwright-rendering")).toBe("rendered");
     const firstBytes = new Uint8Array(await first.arrayBuffer());
-    const stored = await env.CALCULATIONS.get(`render:pdf-v1-a4-example.com:${record.id}`, "arrayBuffer");
+    const stored = await env.CALCULATIONS.get(`render:pdf-v${PDF_RENDERING_VERSION}-a4-example.com:${record.id}`, "arrayBuffer");
     expect(stored).not.toBeNull();
     expect(new Uint8Array(stored!)).toEqual(firstBytes);
 
@@ -100,7 +101,7 @@ describe("one calculation in every format", async () => {
 
     // Replacing the cached bytes shows the answer really comes from KV.
     const marker = new TextEncoder().encode("%PDF-1.7 cached marker");
-    await env.CALCULATIONS.put(`render:pdf-v1-a4-example.com:${record.id}`, marker);
+    await env.CALCULATIONS.put(`render:pdf-v${PDF_RENDERING_VERSION}-a4-example.com:${record.id}`, marker);
     const third = await get(`/c/${record.id}.pdf`);
     expect(new Uint8Array(await third.arrayBuffer())).toEqual(marker);
   });
