@@ -1,6 +1,7 @@
 /** What the pages read from the API, and one way to call it. */
 import type { Section } from "../../src/report/document.js";
 import type { Stage } from "../../src/designs/design.js";
+import type { Problem as ApiProblem } from "../../src/api/problem.js";
 
 export type { Stage };
 
@@ -39,21 +40,10 @@ export interface DesignEntry {
   cautions: string[];
 }
 
-export interface FieldError {
-  path: string;
-  pointer: string;
-  message: string;
-}
+export type { FieldError } from "../../src/api/problem.js";
 
-export interface Problem {
-  type: string;
-  title: string;
-  status: number;
-  detail: string;
-  errors?: FieldError[];
-  field?: string;
-  [extension: string]: unknown;
-}
+/** The API's problem document; `field` is the input a 422 names. */
+export type Problem = ApiProblem & { field?: string };
 
 export interface Preview {
   design: string;
