@@ -174,7 +174,7 @@ function documentInference(input: TwoStageInferenceInput, res: TwoStageInference
 
 export const twoStageInference: Design<TwoStageInferenceInput, TwoStageInferenceResult> = {
   id: "two-stage-inference",
-  version: 1,
+  version: 2,
   stage: "activity",
   title: "Inference after a two-stage trial",
   summary: "P-value, exact confidence interval and unbiased estimate of the response rate at the end of a Simon-type two-stage trial, accounting for the early stop.",
