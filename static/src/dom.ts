@@ -11,15 +11,6 @@ export function h<K extends keyof HTMLElementTagNameMap>(tag: K, attributes: Att
   return element;
 }
 
-const SVG_NS = "http://www.w3.org/2000/svg";
-
-export function svg<K extends keyof SVGElementTagNameMap>(tag: K, attributes: Attributes = {}, ...children: Child[]): SVGElementTagNameMap[K] {
-  const element = document.createElementNS(SVG_NS, tag);
-  setAttributes(element, attributes);
-  append(element, ...children);
-  return element;
-}
-
 function setAttributes(element: Element, attributes: Attributes): void {
   for (const [name, value] of Object.entries(attributes)) {
     if (name.startsWith("on")) throw new Error(`inline handler ${name} refused`);
@@ -28,7 +19,7 @@ function setAttributes(element: Element, attributes: Attributes): void {
   }
 }
 
-export function append(parent: Node, ...children: Child[]): void {
+function append(parent: Node, ...children: Child[]): void {
   for (const child of children) {
     if (child === null || child === undefined || child === false) continue;
     parent.appendChild(typeof child === "string" || typeof child === "number" ? document.createTextNode(String(child)) : child);

@@ -394,7 +394,7 @@ interface Field {
   helpId: string;
 }
 
-export interface FormValues {
+interface FormValues {
   values: Record<string, unknown>;
   problems: FieldError[];
 }
@@ -517,11 +517,6 @@ export class SchemaForm {
       placed.push({ ...error, ...(control?.id ? { controlId: control.id } : {}) });
     }
     return placed;
-  }
-
-  /** The control that should take focus for a field (first radio, first list item...). */
-  controlFor(key: string): HTMLElement | null {
-    return this.fields.get(key)?.widget.controlAt([]) ?? null;
   }
 
   labelFor(key: string): string {
