@@ -1,7 +1,7 @@
 // The AB/BA crossover over HTTP: a frozen calculation, 400s naming the bad
 // field with a sentence, and 422 naming the bound on the sequence size.
 import { describe, expect, it } from "vitest";
-import { type Problem, postCalculation } from "../support/http.js";
+import { type Problem, expectFieldError, postCalculation } from "../support/http.js";
 
 const post = (inputs: unknown): Promise<Response> => postCalculation("crossover-2x2", inputs);
 
@@ -23,12 +23,7 @@ describe("crossover-2x2 over HTTP", () => {
   ];
   for (const [what, inputs, path, message] of cases) {
     it(`answers 400 naming ${path} for ${what}`, async () => {
-      const res = await post(inputs);
-      expect(res.status).toBe(400);
-      expect(res.headers.get("content-type")).toMatch(/application\/problem\+json/);
-      const problem = await res.json<Problem>();
-      const messages = (problem.errors ?? []).filter((e) => e.path === path).map((e) => e.message);
-      expect(messages.some((m) => message.test(m)), messages.join(" | ")).toBe(true);
+      await expectFieldError(await post(inputs), path, message);
     });
   }
 

@@ -58,11 +58,11 @@ async function badRequest(res: Response): Promise<Problem> {
   return res.json<Problem>();
 }
 
-/** Asserts a 400 problem+json whose error at `path` reads like `message`. */
+/** Asserts a 400 problem+json with an error at `path` that reads like `message` (a field may carry several). */
 export async function expectFieldError(res: Response, path: string, message: RegExp): Promise<void> {
   const problem = await badRequest(res);
-  const error = problem.errors?.find((e) => e.path === path);
-  expect(error?.message, JSON.stringify(problem.errors)).toMatch(message);
+  const messages = (problem.errors ?? []).filter((e) => e.path === path).map((e) => e.message);
+  expect(messages.some((m) => message.test(m)), JSON.stringify(problem.errors)).toBe(true);
 }
 
 /** Asserts a 400 problem+json with an error at `path`. */
