@@ -28,7 +28,7 @@ import { type BoinInput, BOIN_WORK_LIMIT, boinBoundaries, boinTrialRunner } from
 import { logisticCeiling } from "./shared/crmModel.js";
 import {
   MAX_DOSES, type OperatingCharacteristics, assertSimulationBudget, checkDoseFindingInput, checkScenarios, doseFindingFields,
-  issueReporter, scenarioSchema, scenarioSeed, selectionChart, simulateScenario, simulationFields, summaryCells, summaryColumns, trueMtd,
+  issueReporter, overdosingShares, scenarioSchema, scenarioSeed, selectionChart, simulateScenario, simulationFields, summaryCells, summaryColumns, trueMtd,
 } from "./shared/doseFinding.js";
 import { LEE_CHEUNG_2009, LIU_YUAN_2015, OQUIGLEY_PEPE_FISHER_1990, STORER_1989 } from "./shared/doseFindingReferences.js";
 import { protocolSection } from "./shared/reportSections.js";
@@ -111,13 +111,6 @@ function threePlusThreeCharacteristics(v: DoseFindingComparisonInput): Operating
   const truth = v.scenario.dltProbabilities;
   const oc = threePlusThreeOperatingCharacteristics(truth, v.threePlusThreeRule);
   const mtd = trueMtd(truth, v.target);
-  const total = oc.expectedTotalPatients;
-  let above = 0;
-  let overTarget = 0;
-  oc.expectedPatients.forEach((n, i) => {
-    if (i > mtd) above += n;
-    if (truth[i]! > v.target) overTarget += n;
-  });
   return {
     scenario: v.scenario.name,
     dltProbabilities: [...truth],
@@ -128,10 +121,9 @@ function threePlusThreeCharacteristics(v: DoseFindingComparisonInput): Operating
     correctSelectionProbability: oc.selectionProbability[mtd]!,
     meanPatients: oc.expectedPatients,
     meanDlts: oc.expectedDlts,
-    meanTotalPatients: total,
+    meanTotalPatients: oc.expectedTotalPatients,
     meanTotalDlts: oc.expectedTotalDlts,
-    treatedAboveMtd: total > 0 ? above / total : 0,
-    treatedAboveTarget: total > 0 ? overTarget / total : 0,
+    ...overdosingShares(oc.expectedPatients, oc.expectedTotalPatients, truth, v.target, mtd),
   };
 }
 

@@ -230,12 +230,6 @@ export function simulateScenario(scenario: Scenario, target: number, trials: num
   }
   const mtd = trueMtd(truth, target);
   const totalPatients = patientSum.reduce((a, b) => a + b, 0);
-  let above = 0;
-  let overTarget = 0;
-  for (let i = 0; i < k; i++) {
-    if (i > mtd) above += patientSum[i]!;
-    if (truth[i]! > target) overTarget += patientSum[i]!;
-  }
   return {
     scenario: scenario.name,
     dltProbabilities: [...truth],
@@ -248,6 +242,25 @@ export function simulateScenario(scenario: Scenario, target: number, trials: num
     meanDlts: Array.from(dltSum, (s) => s / trials),
     meanTotalPatients: totalPatients / trials,
     meanTotalDlts: dltSum.reduce((a, b) => a + b, 0) / trials,
+    ...overdosingShares(patientSum, totalPatients, truth, target, mtd),
+  };
+}
+
+/**
+ * Shares of all patients treated above the true MTD and at doses whose true
+ * DLT probability exceeds the target, from patients per dose (counts or
+ * expectations) and their total.
+ */
+export function overdosingShares(
+  patientsPerDose: ArrayLike<number>, totalPatients: number, truth: readonly number[], target: number, mtd: number,
+): { treatedAboveMtd: number; treatedAboveTarget: number } {
+  let above = 0;
+  let overTarget = 0;
+  for (let i = 0; i < truth.length; i++) {
+    if (i > mtd) above += patientsPerDose[i]!;
+    if (truth[i]! > target) overTarget += patientsPerDose[i]!;
+  }
+  return {
     treatedAboveMtd: totalPatients > 0 ? above / totalPatients : 0,
     treatedAboveTarget: totalPatients > 0 ? overTarget / totalPatients : 0,
   };
