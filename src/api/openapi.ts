@@ -15,6 +15,15 @@ const problemResponse = (description: string) => ({
   content: { "application/problem+json": { schema: { $ref: "#/components/schemas/Problem" } } },
 });
 
+/** The refusals shared by every path that takes a design's inputs (calculations and previews). */
+const INPUT_PROBLEMS = {
+  "400": problemResponse("Malformed JSON or invalid inputs; `errors` names each field."),
+  "404": problemResponse("Unknown design."),
+  "413": problemResponse("Body larger than 64 KiB."),
+  "415": problemResponse("Body is not JSON."),
+  "422": problemResponse("Valid inputs, but no design meets the constraints within the bounds."),
+};
+
 const schemaName = (designId: string): string =>
   designId.split("-").map((p) => p.charAt(0).toUpperCase() + p.slice(1)).join("") + "Inputs";
 
@@ -50,11 +59,7 @@ export function openApiDocument(): Record<string, unknown> {
         responses: {
           "201": { description: "A new calculation was computed and frozen.", content: { "application/json": { schema: { $ref: "#/components/schemas/CalculationRecord" } } } },
           "200": { description: "The same request was frozen before; the stored record is returned.", content: { "application/json": { schema: { $ref: "#/components/schemas/CalculationRecord" } } } },
-          "400": problemResponse("Malformed JSON or invalid inputs; `errors` names each field."),
-          "404": problemResponse("Unknown design."),
-          "413": problemResponse("Body larger than 64 KiB."),
-          "415": problemResponse("Body is not JSON."),
-          "422": problemResponse("Valid inputs, but no design meets the constraints within the bounds."),
+          ...INPUT_PROBLEMS,
         },
       },
     };
@@ -67,11 +72,7 @@ export function openApiDocument(): Record<string, unknown> {
         requestBody: (designPaths[`/api/v1/designs/${design.id}/calculations`] as { post: { requestBody: unknown } }).post.requestBody,
         responses: {
           "200": { description: "The computed design, not stored.", content: { "application/json": { schema: { $ref: "#/components/schemas/Preview" } } } },
-          "400": problemResponse("Malformed JSON or invalid inputs; `errors` names each field."),
-          "404": problemResponse("Unknown design."),
-          "413": problemResponse("Body larger than 64 KiB."),
-          "415": problemResponse("Body is not JSON."),
-          "422": problemResponse("Valid inputs, but no design meets the constraints within the bounds."),
+          ...INPUT_PROBLEMS,
         },
       },
     };
@@ -182,4 +183,6 @@ export function openApiDocument(): Record<string, unknown> {
   };
 }
 
-export const openApiRouter = new Hono<{ Bindings: Env }>().get("/openapi.json", (c) => c.json(openApiDocument()));
+// Built on the first request rather than at start-up (it walks every design's schema), then kept: the catalog does not change in a running Worker.
+let served: Record<string, unknown> | undefined;
+export const openApiRouter = new Hono<{ Bindings: Env }>().get("/openapi.json", (c) => c.json((served ??= openApiDocument())));
