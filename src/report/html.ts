@@ -12,9 +12,6 @@ import { type Block, type Column, type Fact, type Section, type Table, formatCel
 import { escapeMarkup } from "./escape.js";
 import { renderChartSvg } from "./svg.js";
 
-/** Kept for callers that import it from here. */
-export const escapeHtml = escapeMarkup;
-
 const columnLabel = (c: Column): string => escapeMarkup(c.unit ? `${c.label} (${c.unit})` : c.label);
 
 function numericColumns(table: Table): boolean[] {
