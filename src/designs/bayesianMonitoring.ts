@@ -303,6 +303,9 @@ export function computeBayesianMonitoring(input: BayesianMonitoringInput): Bayes
   };
 
   const curveRows = CURVE_RATES.map(characteristics);
+  const gridRows = rateGrid(input).map(characteristics);
+  // The grid holds p0 and p1 of the predictive rule, so alpha and power are read from it.
+  const promisingAt = (rate: number): number | null => gridRows.find((row) => row.rate === rate)!.probabilityPromising;
   return {
     rule: input.rule,
     direction,
@@ -312,9 +315,9 @@ export function computeBayesianMonitoring(input: BayesianMonitoringInput): Bayes
     efficacyThreshold: thresholds?.efficacyThreshold ?? null,
     futilityThreshold: thresholds?.futilityThreshold ?? null,
     search: thresholds?.search ?? null,
-    alpha: s === null ? null : characteristics(input.p0!).probabilityPromising,
-    power: s === null ? null : characteristics(input.p1!).probabilityPromising,
-    operatingCharacteristics: rateGrid(input).map(characteristics),
+    alpha: s === null ? null : promisingAt(input.p0!),
+    power: s === null ? null : promisingAt(input.p1!),
+    operatingCharacteristics: gridRows,
     curve: curveRows.map((r) => [r.rate, r.probabilityPromising ?? r.probabilityOfStopping]),
     sizeCurve: curveRows.map((r) => [r.rate, r.expectedSampleSize]),
   };
