@@ -6,7 +6,7 @@ import { RecordStore } from "../store/recordStore.js";
 import { requireDesign } from "./designs.js";
 import { ProblemError } from "./problem.js";
 import { freezeCalculation, loadRecord } from "./service.js";
-import { parseCalculationRequest, readBoundedText } from "./validation.js";
+import { parseCalculationRequest, readBoundedText, requireJsonContent } from "./validation.js";
 
 export function requireId(id: string): string {
   if (!ID_PATTERN.test(id)) {
@@ -18,10 +18,7 @@ export function requireId(id: string): string {
 
 export const createRouter = new Hono<{ Bindings: Env }>().post("/:design/calculations", async (c) => {
   const design = requireDesign(c.req.param("design"));
-  const type = c.req.header("content-type") ?? "";
-  if (type && !/^application\/(.+\+)?json\b/i.test(type)) {
-    throw new ProblemError(415, "unsupported-media-type", "Send JSON", "The request body must be application/json.");
-  }
+  requireJsonContent(c.req.header("content-type"));
   const text = await readBoundedText(c.req.raw);
   const { inputs, label } = parseCalculationRequest(design, text);
   const { created, record } = await freezeCalculation(new RecordStore(c.env.CALCULATIONS), design, inputs, label);

@@ -6,31 +6,18 @@
  */
 import { Hono } from "hono";
 import type { Env } from "../env.js";
-import { InfeasibleDesignError } from "../designs/design.js";
 import { CAUTION } from "../report/build.js";
-import { canonicalJson } from "../store/canonical.js";
 import { requireDesign } from "./designs.js";
-import { ProblemError } from "./problem.js";
-import { parseCalculationRequest, readBoundedText } from "./validation.js";
+import { computeFrozen, freezeValue } from "./service.js";
+import { parseCalculationRequest, readBoundedText, requireJsonContent } from "./validation.js";
 
 export const previewRouter = new Hono<{ Bindings: Env }>().post("/:design/previews", async (c) => {
   const design = requireDesign(c.req.param("design"));
-  const type = c.req.header("content-type") ?? "";
-  if (type && !/^application\/(.+\+)?json\b/i.test(type)) {
-    throw new ProblemError(415, "unsupported-media-type", "Send JSON", "The request body must be application/json.");
-  }
+  requireJsonContent(c.req.header("content-type"));
   const { inputs: parsed } = parseCalculationRequest(design, await readBoundedText(c.req.raw));
   // The same canonical round trip as a frozen calculation, so a preview shows what freezing would store.
-  const inputs = JSON.parse(canonicalJson(parsed)) as Record<string, unknown>;
-  let result: unknown;
-  try {
-    result = JSON.parse(canonicalJson(design.compute(inputs)));
-  } catch (error) {
-    if (error instanceof InfeasibleDesignError) {
-      throw new ProblemError(422, "infeasible-design", "No design meets these constraints", error.message, error.details);
-    }
-    throw error;
-  }
+  const inputs = freezeValue(parsed as Record<string, unknown>);
+  const result = computeFrozen(design, inputs);
   c.header("Cache-Control", "no-store");
   return c.json({
     design: design.id,

@@ -10,8 +10,20 @@ import { ENGINE } from "../version.js";
 import { ProblemError } from "./problem.js";
 
 /** Round trip through canonical JSON: the inputs hashed are exactly the inputs stored and computed on. */
-function freezeValue<T>(value: T): T {
+export function freezeValue<T>(value: T): T {
   return JSON.parse(canonicalJson(value)) as T;
+}
+
+/** The design computed on frozen inputs, its result frozen the same way; an infeasible design becomes a 422. */
+export function computeFrozen(design: AnyDesign, inputs: unknown): unknown {
+  try {
+    return freezeValue(design.compute(inputs));
+  } catch (error) {
+    if (error instanceof InfeasibleDesignError) {
+      throw new ProblemError(422, "infeasible-design", "No design meets these constraints", error.message, error.details);
+    }
+    throw error;
+  }
 }
 
 export async function freezeCalculation(
@@ -26,15 +38,7 @@ export async function freezeCalculation(
   const existing = await store.read(id);
   if (existing.status === "found") return { created: false, record: existing.record };
   if (existing.status === "corrupt") throw corruptProblem(id, existing);
-  let result: unknown;
-  try {
-    result = freezeValue(design.compute(inputs));
-  } catch (error) {
-    if (error instanceof InfeasibleDesignError) {
-      throw new ProblemError(422, "infeasible-design", "No design meets these constraints", error.message, error.details);
-    }
-    throw error;
-  }
+  const result = computeFrozen(design, inputs);
   const record = await sealRecord({
     id,
     design: design.id,

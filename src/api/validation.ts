@@ -77,6 +77,13 @@ export interface CalculationRequest {
   label: string | undefined;
 }
 
+/** A body sent as something other than JSON is refused (415); no Content-Type at all is read as JSON. */
+export function requireJsonContent(contentType: string | undefined): void {
+  if (contentType && !/^application\/(.+\+)?json\b/i.test(contentType)) {
+    throw new ProblemError(415, "unsupported-media-type", "Send JSON", "The request body must be application/json.");
+  }
+}
+
 /** Reads the body with its size bounded, whatever Content-Length claims. */
 export async function readBoundedText(request: Request): Promise<string> {
   const declared = Number(request.headers.get("content-length") ?? "0");
