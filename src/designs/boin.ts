@@ -217,10 +217,10 @@ export interface BoinResult {
   operatingCharacteristics: OperatingCharacteristics[] | null;
 }
 
-function boinNextDose(input: BoinInput): BoinNextDose {
+/** `table` covers at least the most patients treated at any dose. */
+function boinNextDose(input: BoinInput, table: DecisionRow[]): BoinNextDose {
   const data = input.data!;
   const { patients, dlts, total } = observedCounts(data);
-  const table = boinDecisionTable(input, Math.max(input.maxSampleSize, ...patients));
   const eliminatedFrom = eliminatedFromData(patients, dlts, table);
   const c = input.currentDose! - 1;
   const step = nextAction(c, patients[c]!, dlts[c]!, input.doses.length, eliminatedFrom, table);
@@ -240,8 +240,12 @@ function boinNextDose(input: BoinInput): BoinNextDose {
 
 export function computeBoin(input: BoinInput): BoinResult {
   const boundaries = boinBoundaries(input.target, input.underdosingLimit, input.overdosingLimit);
+  if (input.use === "next-dose") {
+    // The data may hold more patients at a dose than the maximum sample size; the report's table stops there.
+    const table = boinDecisionTable(input, Math.max(input.maxSampleSize, ...input.data!.map((d) => d.patients)));
+    return { boundaries, decisionTable: table.slice(0, input.maxSampleSize), nextDose: boinNextDose(input, table), operatingCharacteristics: null };
+  }
   const decisionTable = boinDecisionTable(input, input.maxSampleSize);
-  if (input.use === "next-dose") return { boundaries, decisionTable, nextDose: boinNextDose(input), operatingCharacteristics: null };
   return { boundaries, decisionTable, nextDose: null, operatingCharacteristics: simulatePlan("BOIN", input, BOIN_WORK_LIMIT, () => boinTrialRunner(input)) };
 }
 
