@@ -10,9 +10,7 @@ import { type ReportDocument, buildReport } from "../src/report/build.js";
 import { REPORT_FONTS } from "../src/report/fonts.js";
 import { renderHtml } from "../src/report/html.js";
 import { renderPdf } from "../src/report/pdf.js";
-import { canonicalJson } from "../src/store/canonical.js";
-import { calculationId, sealRecord } from "../src/store/record.js";
-import { ENGINE } from "../src/version.js";
+import { exampleRecord } from "../test/support/report.js";
 
 /** The KV calls the record store makes, over a Map. */
 class MemoryKV {
@@ -32,13 +30,7 @@ class MemoryKV {
 
 const docs: ReportDocument[] = [];
 for (const design of catalog) {
-  const inputs = JSON.parse(canonicalJson(design.input.parse(design.example))) as unknown;
-  const result = JSON.parse(canonicalJson(design.compute(inputs))) as unknown;
-  const record = await sealRecord({
-    id: await calculationId(design.id, design.version, inputs, "TW-417 bench"), design: design.id, designVersion: design.version,
-    engine: ENGINE, inputs, label: "TW-417 bench", result, createdAt: "2026-12-01T00:00:00.000Z",
-  });
-  const doc = buildReport(design, record, "https://trialwright.example");
+  const doc = buildReport(design, await exampleRecord(design, "TW-417 bench"), "https://trialwright.example");
   docs.push(doc);
 }
 const byCells = (d: ReportDocument): number => d.sections.flatMap((s) => s.blocks).reduce((n, b) => n + (b.kind === "table" ? b.table.rows.length * b.table.columns.length : b.kind === "chart" ? 200 : 10), 0);

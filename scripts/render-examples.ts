@@ -15,9 +15,7 @@ import { buildReport } from "../src/report/build.js";
 import { REPORT_FONTS } from "../src/report/fonts.js";
 import { renderHtml } from "../src/report/html.js";
 import { renderPdf } from "../src/report/pdf.js";
-import { canonicalJson } from "../src/store/canonical.js";
-import { calculationId, sealRecord } from "../src/store/record.js";
-import { ENGINE } from "../src/version.js";
+import { exampleRecord } from "../test/support/report.js";
 
 const OUT = join(process.cwd(), "out", "examples");
 const ORIGIN = "https://trialwright.example";
@@ -43,13 +41,7 @@ try {
     const dir = join(OUT, design.id);
     rmSync(dir, { recursive: true, force: true });
     mkdirSync(dir, { recursive: true });
-    const inputs = JSON.parse(canonicalJson(design.input.parse(design.example))) as unknown;
-    const result = JSON.parse(canonicalJson(design.compute(inputs))) as unknown;
-    const record = await sealRecord({
-      id: await calculationId(design.id, design.version, inputs, LABEL),
-      design: design.id, designVersion: design.version, engine: ENGINE, inputs, label: LABEL, result,
-      createdAt: "2026-12-01T09:00:00.000Z",
-    });
+    const record = await exampleRecord(design, LABEL);
     const doc = buildReport(design, record, ORIGIN);
     const html = renderHtml(doc);
     writeFileSync(join(dir, "report.html"), html);
@@ -76,12 +68,8 @@ try {
   }
   // A label made of script payloads, opened with JavaScript enabled: nothing may run.
   const design = catalog[0]!;
-  const inputs = JSON.parse(canonicalJson(design.input.parse(design.example))) as unknown;
   const payload = `<script>alert(1)</script><img src=x onerror=alert(2)><svg onload=alert(3)>`;
-  const record = await sealRecord({
-    id: await calculationId(design.id, design.version, inputs, payload), design: design.id, designVersion: design.version, engine: ENGINE,
-    inputs, label: payload, result: JSON.parse(canonicalJson(design.compute(inputs))) as unknown, createdAt: "2026-12-01T09:00:00.000Z",
-  });
+  const record = await exampleRecord(design, payload);
   const page = await browser.newPage();
   let dialogs = 0;
   page.on("dialog", (dialog) => { dialogs++; void dialog.dismiss(); });
