@@ -4,14 +4,12 @@
  * SELF here). Checks are against the API contract in DESIGN.md and
  * DEVELOPERS.md, and against the calculations endpoint itself.
  */
-import { SELF, env } from "cloudflare:test";
+import { env } from "cloudflare:test";
 import { describe, expect, it } from "vitest";
+import { get, post } from "../support/http.js";
 
 interface Catalog { designs: Array<{ id: string; example: Record<string, unknown> }> }
 interface Preview { design: string; designVersion: number; inputs: Record<string, unknown>; result: unknown; question: string; sections: Array<{ id: string; title: string; blocks: unknown[] }>; cautions: string[] }
-
-const post = (path: string, body: unknown, type = "application/json"): Promise<Response> =>
-  SELF.fetch(`https://example.com${path}`, { method: "POST", headers: { "content-type": type }, body: typeof body === "string" ? body : JSON.stringify(body) });
 
 async function storedKeys(): Promise<string[]> {
   return (await env.CALCULATIONS.list()).keys.map((k) => k.name);
@@ -20,7 +18,7 @@ async function storedKeys(): Promise<string[]> {
 describe("POST /api/v1/designs/{id}/previews", () => {
   it("computes every design's example, returns its sections, and stores nothing", async () => {
     const before = await storedKeys();
-    const catalog = await (await SELF.fetch("https://example.com/api/v1/designs")).json<Catalog>();
+    const catalog = await (await get("/api/v1/designs")).json<Catalog>();
     for (const design of catalog.designs) {
       const res = await post(`/api/v1/designs/${design.id}/previews`, { inputs: design.example });
       expect(res.status, design.id).toBe(200);
@@ -56,14 +54,14 @@ describe("POST /api/v1/designs/{id}/previews", () => {
     expect(problem.errors.map((e) => e.pointer)).toEqual(["/inputs/sd"]);
     expect(problem.errors[0]!.path).toBe("inputs.sd");
     expect((await post("/api/v1/designs/no-such-design/previews", { inputs: {} })).status).toBe(404);
-    expect((await post("/api/v1/designs/two-means/previews", "delta=3", "text/plain")).status).toBe(415);
+    expect((await post("/api/v1/designs/two-means/previews", "delta=3", { "content-type": "text/plain" })).status).toBe(415);
     expect((await post("/api/v1/designs/two-means/previews", "{not json")).status).toBe(400);
     expect(await storedKeys()).toEqual(before);
   });
 
   it("is described in the OpenAPI document for every design", async () => {
-    const doc = await (await SELF.fetch("https://example.com/api/v1/openapi.json")).json<{ paths: Record<string, { post?: { responses: Record<string, unknown> } }> }>();
-    const catalog = await (await SELF.fetch("https://example.com/api/v1/designs")).json<Catalog>();
+    const doc = await (await get("/api/v1/openapi.json")).json<{ paths: Record<string, { post?: { responses: Record<string, unknown> } }> }>();
+    const catalog = await (await get("/api/v1/designs")).json<Catalog>();
     for (const design of catalog.designs) {
       expect(doc.paths[`/api/v1/designs/${design.id}/previews`]?.post?.responses["200"], design.id).toBeDefined();
     }
@@ -73,7 +71,7 @@ describe("POST /api/v1/designs/{id}/previews", () => {
 describe("form pages", () => {
   it("serves the start page and the design page with a strict Content-Security-Policy", async () => {
     for (const path of ["/", "/design?id=two-means"]) {
-      const res = await SELF.fetch(`https://example.com${path}`);
+      const res = await get(path);
       expect(res.status, path).toBe(200);
       expect(res.headers.get("content-type"), path).toMatch(/^text\/html/);
       const csp = res.headers.get("content-security-policy") ?? "";
@@ -85,18 +83,18 @@ describe("form pages", () => {
       expect(html).not.toMatch(/<script(?![^>]*\bsrc=)[^>]*>/);
       expect(html).not.toMatch(/\son[a-z]+=/i);
     }
-    const css = await SELF.fetch("https://example.com/style.css");
+    const css = await get("/style.css");
     expect(css.status).toBe(200);
     expect(css.headers.get("content-type")).toMatch(/^text\/css/);
   });
 
   it("does not serve the script's TypeScript sources", async () => {
-    const res = await SELF.fetch("https://example.com/src/app.ts");
+    const res = await get("/src/app.ts");
     expect(res.status).toBe(404);
   });
 
   it("leaves unknown API paths to the API's own 404", async () => {
-    const res = await SELF.fetch("https://example.com/api/v1/nothing-here");
+    const res = await get("/api/v1/nothing-here");
     expect(res.status).toBe(404);
     expect(res.headers.get("content-type")).toMatch(/^application\/problem\+json/);
   });
