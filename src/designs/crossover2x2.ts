@@ -32,7 +32,7 @@ import type { Section } from "../report/document.js";
 import { normalCdf, normalQuantile } from "../stats/normal.js";
 import { studentTQuantile } from "../stats/studentT.js";
 import { noncentralTCdf, noncentralTSurvival } from "../stats/noncentralT.js";
-import { type ArmSizes, detectableEffect, effectCurve, powerCurve, smallestSampleSize } from "./shared/sizing.js";
+import { type ArmSizes, detectableEffect, effectCurve, powerCurve, rememberPower, smallestSampleSize } from "./shared/sizing.js";
 import { checkComparativeCommon, comparativeCommonFields, groupSizeField, solveForField } from "./shared/fields.js";
 import { designSection, protocolSection } from "./shared/reportSections.js";
 import { type TwoArmCounts, effectCurveChart, twoArmCounts, powerCurveChart, powerCurveTable } from "./shared/comparativeSections.js";
@@ -131,37 +131,32 @@ export function crossoverPower(test: CrossoverTest, withinSubjectSd: number, seq
 export function computeCrossover2x2(input: Crossover2x2Input): Crossover2x2Result {
   const sd = input.withinSubjectSd;
   const powerAt = (s: ArmSizes, d: number): number => crossoverPower(input, sd, s, d);
-  let sequences: ArmSizes;
-  let delta: number;
+  const given: ArmSizes = { n1: input.n1!, n2: input.n2! };
+  const nullDelta = input.hypothesis === "non-inferiority" ? -input.margin! : 0;
+  const delta = input.solveFor === "difference"
+    ? detectableEffect((d) => powerAt(given, d), input.power, nullDelta, nullDelta + 50 * crossoverStandardError(sd, given))
+    : input.delta!;
+  const powerAtSizes = rememberPower((s) => powerAt(s, delta));
+  let sequences = given;
   if (input.solveFor === "sample-size") {
-    delta = input.delta!;
     const found = smallestSampleSize({
-      powerAt: (s) => powerAt(s, delta), target: input.power, allocationRatio: 1, minimum: 2, maximum: MAX_PER_SEQUENCE,
+      powerAt: powerAtSizes, target: input.power, allocationRatio: 1, minimum: 2, maximum: MAX_PER_SEQUENCE,
       unit: "per sequence",
     });
     sequences = { n1: found.n1, n2: found.n2 };
-  } else {
-    sequences = { n1: input.n1!, n2: input.n2! };
-    if (input.solveFor === "difference") {
-      const lo = input.hypothesis === "non-inferiority" ? -input.margin! : 0;
-      delta = detectableEffect((d) => powerAt(sequences, d), input.power, lo, lo + 50 * crossoverStandardError(sd, sequences));
-    } else {
-      delta = input.delta!;
-    }
   }
   const df = sequences.n1 + sequences.n2 - 2;
   const p = input.hypothesis === "superiority" && input.sides === 2 ? 1 - input.alpha / 2 : 1 - input.alpha;
   // The effect curve runs from the null difference to twice the design's distance from it, on the design's side.
-  const nullDelta = input.hypothesis === "non-inferiority" ? -input.margin! : 0;
   const direction = input.hypothesis === "superiority" && delta < 0 ? -1 : 1;
   const span = direction * delta - nullDelta;
   return {
-    ...twoArmCounts(sequences, input.dropout, powerAt(sequences, delta)),
+    ...twoArmCounts(sequences, input.dropout, powerAtSizes(sequences)),
     delta,
     standardError: crossoverStandardError(sd, sequences),
     criticalValue: input.method === "exact-t" ? studentTQuantile(p, df) : normalQuantile(p),
     degreesOfFreedom: input.method === "exact-t" ? df : null,
-    powerCurve: powerCurve(sequences.n1, sequences.n2 / sequences.n1, 2, (s) => powerAt(s, delta)),
+    powerCurve: powerCurve(sequences.n1, sequences.n2 / sequences.n1, 2, powerAtSizes),
     effectCurve: effectCurve(nullDelta, nullDelta + 2 * span, (e) => powerAt(sequences, direction * e)).map(([e, pw]) => [direction * e, pw]),
   };
 }

@@ -47,7 +47,7 @@ import { studentTQuantile } from "../stats/studentT.js";
 import { noncentralTCdf, noncentralTSurvival } from "../stats/noncentralT.js";
 import { type TwoMeansInput, twoMeansPower } from "./twoMeans.js";
 import { twoProportionsPower } from "./shared/twoProportionsPower.js";
-import { curveSizes, detectableEffect, inflateForDropout, smallestSampleSize } from "./shared/sizing.js";
+import { curveSizes, detectableEffect, inflateForDropout, rememberPower, smallestSampleSize } from "./shared/sizing.js";
 import { designSection, protocolSection } from "./shared/reportSections.js";
 import { checkComparativeCommon, comparativeCommonFields, probabilityField } from "./shared/fields.js";
 
@@ -253,9 +253,19 @@ const effectField = (input: Factorial2x2Input, factor: Factor): string => (input
 
 export function computeFactorial2x2(input: Factorial2x2Input): Factorial2x2Result {
   const level = mainEffectAlpha(input);
+  // Each power is asked for again at the chosen size and on the curve, so each size is computed once.
+  const perCell = (power: (m: number) => number): ((m: number) => number) => {
+    const remembered = rememberPower((a) => power(a.n1));
+    return (m) => remembered({ n1: m, n2: m });
+  };
+  const atLevel = {
+    A: perCell((m) => mainEffectPower(input, "A", m, level)),
+    B: perCell((m) => mainEffectPower(input, "B", m, level)),
+  };
+  const interactionAt = perCell((m) => interactionPower(input, m));
   const required = {
-    A: requiredPerCell((m) => mainEffectPower(input, "A", m, level), input.power, effectField(input, "A")),
-    B: requiredPerCell((m) => mainEffectPower(input, "B", m, level), input.power, effectField(input, "B")),
+    A: requiredPerCell(atLevel.A, input.power, effectField(input, "A")),
+    B: requiredPerCell(atLevel.B, input.power, effectField(input, "B")),
   };
   let nPerCell: number;
   let sizedBy: Factor | null = null;
@@ -283,7 +293,7 @@ export function computeFactorial2x2(input: Factorial2x2Input): Factorial2x2Resul
     effect: mainEffectSize(input, factor),
     alpha: level,
     requiredPerCell: required[factor],
-    power: powerAt(factor, nPerCell, level),
+    power: atLevel[factor](nPerCell),
     powerUnderHolm: input.multiplicity === "holm" ? holm(factor, factor === "A" ? "B" : "A", nPerCell) : null,
     marginRates: input.outcome === "proportions" ? marginRates(input, factor) : null,
   }));
@@ -291,7 +301,7 @@ export function computeFactorial2x2(input: Factorial2x2Input): Factorial2x2Resul
   const detectableMainEffect = input.outcome === "means"
     ? detectableEffect((e) => marginMeansPower(input, e, nPerCell, level), input.power, 0, (50 * input.sd!) / Math.sqrt(nPerCell))
     : null;
-  const interactionPerCell = requiredPerCell((m) => interactionPower(input, m), input.power, "interaction");
+  const interactionPerCell = requiredPerCell(interactionAt, input.power, "interaction");
   const enrolledPerCell = inflateForDropout(nPerCell, input.dropout);
   const sizes = curveSizes(nPerCell, 2);
   const curve = (f: (m: number) => number): Array<[number, number]> => sizes.map((m) => [4 * m, f(m)]);
@@ -309,14 +319,14 @@ export function computeFactorial2x2(input: Factorial2x2Input): Factorial2x2Resul
       alpha: input.alpha,
       requiredPerCell: interactionPerCell,
       requiredTotal: interactionPerCell === null ? null : 4 * interactionPerCell,
-      power: interactionPower(input, nPerCell),
+      power: interactionAt(nPerCell),
       sizeRatio: interactionPerCell === null ? null : interactionPerCell / nPerCell,
       cellRates: input.outcome === "proportions" ? interactionCellRates(input) : null,
     },
     powerCurves: {
-      A: curve((m) => powerAt("A", m, level)),
-      B: curve((m) => powerAt("B", m, level)),
-      interaction: curve((m) => interactionPower(input, m)),
+      A: curve(atLevel.A),
+      B: curve(atLevel.B),
+      interaction: curve(interactionAt),
     },
   };
 }

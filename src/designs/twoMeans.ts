@@ -25,7 +25,7 @@ import { noncentralTCdf, noncentralTSurvival } from "../stats/noncentralT.js";
 import { integrate } from "../stats/quadrature.js";
 import { logGamma } from "../stats/gamma.js";
 import {
-  type ArmSizes, armsFromControl, detectableEffect, powerCurve, smallestSampleSize,
+  type ArmSizes, armsFromControl, detectableEffect, powerCurve, rememberPower, smallestSampleSize,
 } from "./shared/sizing.js";
 import { comparativeCommonFields } from "./shared/fields.js";
 import { type InterimLooksResult, interimLooksField, planInterimLooks, refineInterimTest } from "./shared/interimLooks.js";
@@ -147,26 +147,14 @@ function criticalValue(input: TwoMeansInput, df: number): number {
 }
 
 export function computeTwoMeans(input: TwoMeansInput): TwoMeansResult {
-  let arms: ArmSizes;
-  let delta: number;
+  const delta = input.solveFor === "difference" ? solveDifference(input, { n1: input.n1!, n2: input.n2! }) : input.delta!;
+  const powerAt = rememberPower((a) => twoMeansPower(input, a, delta));
+  let arms: ArmSizes = { n1: input.n1!, n2: input.n2! };
   if (input.solveFor === "sample-size") {
-    delta = input.delta!;
-    arms = smallestSampleSize({
-      powerAt: (a) => twoMeansPower(input, a, delta),
-      target: input.power,
-      allocationRatio: input.allocationRatio,
-      minimum: 2,
-      maximum: MAX_PER_ARM,
-    });
-  } else {
-    arms = { n1: input.n1!, n2: input.n2! };
-    if (input.solveFor === "difference") {
-      delta = solveDifference(input, arms);
-    } else {
-      delta = input.delta!;
-    }
+    const found = smallestSampleSize({ powerAt, target: input.power, allocationRatio: input.allocationRatio, minimum: 2, maximum: MAX_PER_ARM });
+    arms = { n1: found.n1, n2: found.n2 };
   }
-  const power = twoMeansPower(input, arms, delta);
+  const power = powerAt(arms);
   const df = arms.n1 + arms.n2 - 2;
   const ratio = arms.n2 / arms.n1;
   return {
@@ -175,7 +163,7 @@ export function computeTwoMeans(input: TwoMeansInput): TwoMeansResult {
     standardizedEffect: delta / input.sd,
     criticalValue: criticalValue(input, df),
     degreesOfFreedom: input.method === "exact-t" ? df : null,
-    powerCurve: powerCurve(arms.n1, ratio, 2, (a) => twoMeansPower(input, a, delta)),
+    powerCurve: powerCurve(arms.n1, ratio, 2, powerAt),
     ...(input.interimLooks ? {
       interimLooks: planInterimLooks(input.interimLooks, { alpha: input.alpha, power: input.power, sides: input.sides }, { unit: "participants", n1: arms.n1, n2: arms.n2, dropout: input.dropout }),
     } : {}),

@@ -26,6 +26,24 @@ export function inflateForDropout(n: number, dropout: number): number {
   return dropout > 0 ? Math.ceil(n / (1 - dropout) - 1e-9) : n;
 }
 
+/**
+ * A power function of the arm sizes that computes each pair of sizes once:
+ * solving, reporting the power at the answer and drawing the curve around it
+ * ask for the same sizes again.
+ */
+export function rememberPower(powerAt: (arms: ArmSizes) => number): (arms: ArmSizes) => number {
+  const known = new Map<string, number>();
+  return (arms) => {
+    const key = `${arms.n1}:${arms.n2}`;
+    let power = known.get(key);
+    if (power === undefined) {
+      power = powerAt(arms);
+      known.set(key, power);
+    }
+    return power;
+  };
+}
+
 export interface SizeSearch {
   /** Power at given arm sizes. */
   powerAt(arms: ArmSizes): number;
@@ -47,7 +65,8 @@ export interface SizeSearch {
  * discrete methods, whose power is not monotone, have their own scan.
  */
 export function smallestSampleSize(search: SizeSearch): ArmSizes & { power: number } {
-  const reaches = (n1: number): boolean => search.powerAt(armsFromControl(n1, search.allocationRatio)) >= search.target;
+  const powerAt = rememberPower(search.powerAt);
+  const reaches = (n1: number): boolean => powerAt(armsFromControl(n1, search.allocationRatio)) >= search.target;
   let hi = search.minimum;
   while (!reaches(hi)) {
     if (hi >= search.maximum) {
@@ -65,7 +84,7 @@ export function smallestSampleSize(search: SizeSearch): ArmSizes & { power: numb
     if (reaches(mid)) hi = mid; else lo = mid + 1;
   }
   const arms = armsFromControl(hi, search.allocationRatio);
-  return { ...arms, power: search.powerAt(arms) };
+  return { ...arms, power: powerAt(arms) };
 }
 
 /**
