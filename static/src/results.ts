@@ -9,7 +9,11 @@ const factValue = (f: Fact): string => `${formatCell(f.value, f.digits)}${f.unit
 function keyFacts(sections: Section[]): HTMLElement | null {
   const facts = sections.flatMap((s) => s.blocks.flatMap((b) => (b.kind === "facts" ? b.facts.filter((f) => f.key) : [])));
   if (facts.length === 0) return null;
-  return h("dl", { class: "key-facts" }, ...facts.map((f) => h("div", { class: "key-fact" }, h("dt", {}, f.label), h("dd", {}, factValue(f), f.note ? h("small", {}, f.note) : null))));
+  // A long value (a list, a model's name) takes two cells rather than wrapping a word a line.
+  return h("dl", { class: "key-facts" }, ...facts.map((f) => {
+    const value = factValue(f);
+    return h("div", { class: value.length > 12 ? "key-fact long" : "key-fact" }, h("dt", {}, f.label), h("dd", {}, value, f.note ? h("small", {}, f.note) : null));
+  }));
 }
 
 function tableElement(table: Table): HTMLElement {
