@@ -2,7 +2,7 @@
  * One table of the document model as CSV (RFC 4180: comma-separated, CRLF,
  * quotes doubled). Numbers keep full precision; column units join the header.
  */
-import type { Cell, Table } from "./document.js";
+import { type Cell, type Table, columnHeading } from "./document.js";
 
 function field(value: string): string {
   return /[",\r\n]/.test(value) || /^\s|\s$/.test(value) ? `"${value.replace(/"/g, '""')}"` : value;
@@ -20,6 +20,6 @@ function cell(value: Cell): string {
 }
 
 export function tableCsv(table: Table): string {
-  const header = table.columns.map((c) => field(textCell(c.unit ? `${c.label} (${c.unit})` : c.label)));
+  const header = table.columns.map((c) => field(textCell(columnHeading(c))));
   return [header.join(","), ...table.rows.map((row) => table.columns.map((_, i) => cell(row[i] ?? null)).join(","))].join("\r\n") + "\r\n";
 }

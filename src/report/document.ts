@@ -82,6 +82,11 @@ export function formatNumber(value: number, digits?: number): string {
   return value.toFixed(digits);
 }
 
+/** A column's heading as every format prints it: the label, then its unit in parentheses. */
+export function columnHeading(c: Column): string {
+  return c.unit ? `${c.label} (${c.unit})` : c.label;
+}
+
 export function formatCell(value: Cell, digits?: number): string {
   if (value === null) return "—";
   if (typeof value === "number") return formatNumber(value, Number.isInteger(value) && digits === undefined ? undefined : digits);

@@ -8,11 +8,11 @@ import { REPORT_STYLESHEET } from "../../reports/stylesheet.js";
 import { LONG_KEY_VALUE } from "../../reports/theme.js";
 import type { ReportDocument } from "./build.js";
 import { mainTables } from "./build.js";
-import { type Block, type Column, type Fact, type Section, type Table, formatCell } from "./document.js";
+import { type Block, type Column, type Fact, type Section, type Table, columnHeading, formatCell } from "./document.js";
 import { escapeMarkup } from "./escape.js";
 import { renderChartSvg } from "./svg.js";
 
-const columnLabel = (c: Column): string => escapeMarkup(c.unit ? `${c.label} (${c.unit})` : c.label);
+const columnLabel = (c: Column): string => escapeMarkup(columnHeading(c));
 
 function numericColumns(table: Table): boolean[] {
   return table.columns.map((_, i) => table.rows.length > 0 && table.rows.every((row) => row[i] === null || typeof row[i] === "number"));

@@ -17,7 +17,7 @@ import {
 } from "../../reports/theme.js";
 import type { ReportDocument } from "./build.js";
 import { type Anchor, type Primitive, layoutChart } from "./chartLayout.js";
-import { type Chart, type Column, type Fact, type Section, type Table, formatCell } from "./document.js";
+import { type Chart, type Column, type Fact, type Section, type Table, columnHeading, formatCell } from "./document.js";
 import { FontMetrics, visualOrder, wrapText } from "./pdfText.js";
 
 export interface ReportFonts {
@@ -263,10 +263,6 @@ interface PreparedTable {
   rows: string[][][];
 }
 
-function headerText(c: Column): string {
-  return c.unit ? `${c.label} (${c.unit})` : c.label;
-}
-
 /**
  * Column widths in the manner of automatic table layout: each column at least
  * as wide as its longest word (numbers never wrap), the rest of the line shared
@@ -275,7 +271,7 @@ function headerText(c: Column): string {
 function prepareTable(w: Writer, table: Table): PreparedTable {
   const numeric = table.columns.map((_, i) => table.rows.length > 0 && table.rows.every((row) => row[i] === null || typeof row[i] === "number"));
   const cells = table.rows.map((row) => table.columns.map((c, i) => w.regular.metrics.sanitize(formatCell(row[i] ?? null, c.digits))));
-  const heads = table.columns.map((c) => w.bold.metrics.sanitize(headerText(c)));
+  const heads = table.columns.map((c) => w.bold.metrics.sanitize(columnHeading(c)));
   const available = w.contentWidth;
   const longestWord = (face: Face, text: string, s: number): number => Math.max(0, ...text.split(" ").map((word) => face.metrics.width(word, s)));
   const measure = (s: number): { natural: number[]; minimum: number[]; content: number[] } => {
