@@ -36,10 +36,11 @@ import { normalCdf, normalQuantile } from "../stats/normal.js";
 import { findRoot } from "../stats/rootFinding.js";
 import { type AccrualModel, enrolledFraction, eventProbability, expectedEventFraction } from "../stats/eventProbability.js";
 import { type ArmSizes, armsFromControl, curveSizes, detectableEffect } from "./shared/sizing.js";
-import { designSection, protocolSection } from "./shared/reportSections.js";
+import { designSection } from "./shared/reportSections.js";
+import { closingSections } from "./shared/comparativeSections.js";
 import { checkComparativeCommon, comparativeCommonFields } from "./shared/fields.js";
 import {
-  type InterimLooksResult, interimLooksField, interimLooksProtocolText, interimLooksSections, planInterimLooks, refineInterimTest,
+  type InterimLooksResult, interimLooksField, planInterimLooks, refineInterimTest,
 } from "./shared/interimLooks.js";
 
 const MAX_EVENTS = 200000;
@@ -481,8 +482,9 @@ function documentTimeToEvent(input: TimeToEventInput, r: TimeToEventResult): Sec
         },
       ],
     },
-    ...(input.interimLooks && r.interimLooks ? interimLooksSections(input.interimLooks, input.sides, r.interimLooks) : []),
-    protocolSection(input.interimLooks && r.interimLooks && r.interimEnrolment ? `${protocol} ${interimLooksProtocolText(input.interimLooks, input.sides, r.interimLooks)} To reach the maximum events, ${r.interimEnrolment.n1 + r.interimEnrolment.n2} participants are enrolled (${r.interimEnrolment.n1} control, ${r.interimEnrolment.n2} experimental), the final analysis expected about ${fmt(r.interimEnrolment.analysisYears, 1)} years after the first participant enters.` : protocol),
+    ...closingSections(input.interimLooks, input.sides, r.interimLooks, protocol, r.interimEnrolment
+      ? ` To reach the maximum events, ${r.interimEnrolment.n1 + r.interimEnrolment.n2} participants are enrolled (${r.interimEnrolment.n1} control, ${r.interimEnrolment.n2} experimental), the final analysis expected about ${fmt(r.interimEnrolment.analysisYears, 1)} years after the first participant enters.`
+      : ""),
   ];
 }
 

@@ -88,9 +88,9 @@ export function effectCurveChart(c: { title: string; xLabel: string; points: Arr
 }
 
 /** The interim-looks sections, when planned, then the protocol paragraph (with the looks' sentence appended). */
-export function closingSections(interimLooks: InterimLooksInput | undefined, sides: 1 | 2, looks: InterimLooksResult | undefined, protocol: string): Section[] {
+export function closingSections(interimLooks: InterimLooksInput | undefined, sides: 1 | 2, looks: InterimLooksResult | undefined, protocol: string, afterLooks = ""): Section[] {
   if (!interimLooks || !looks) return [protocolSection(protocol)];
-  return [...interimLooksSections(interimLooks, sides, looks), protocolSection(`${protocol} ${interimLooksProtocolText(interimLooks, sides, looks)}`)];
+  return [...interimLooksSections(interimLooks, sides, looks), protocolSection(`${protocol} ${interimLooksProtocolText(interimLooks, sides, looks)}${afterLooks}`)];
 }
 
 /** The counts of a two-arm result from its evaluable sizes: each arm inflated for dropout on its own. */
