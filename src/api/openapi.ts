@@ -15,6 +15,11 @@ const problemResponse = (description: string) => ({
   content: { "application/problem+json": { schema: { $ref: "#/components/schemas/Problem" } } },
 });
 
+const recordResponse = (description: string) => ({
+  description,
+  content: { "application/json": { schema: { $ref: "#/components/schemas/CalculationRecord" } } },
+});
+
 /** The refusals shared by every path that takes a design's inputs (calculations and previews). */
 const INPUT_PROBLEMS = {
   "400": problemResponse("Malformed JSON or invalid inputs; `errors` names each field."),
@@ -57,8 +62,8 @@ export function openApiDocument(): Record<string, unknown> {
           },
         },
         responses: {
-          "201": { description: "A new calculation was computed and frozen.", content: { "application/json": { schema: { $ref: "#/components/schemas/CalculationRecord" } } } },
-          "200": { description: "The same request was frozen before; the stored record is returned.", content: { "application/json": { schema: { $ref: "#/components/schemas/CalculationRecord" } } } },
+          "201": recordResponse("A new calculation was computed and frozen."),
+          "200": recordResponse("The same request was frozen before; the stored record is returned."),
           ...INPUT_PROBLEMS,
         },
       },
@@ -104,7 +109,7 @@ export function openApiDocument(): Record<string, unknown> {
           summary: "A frozen calculation",
           parameters: [{ name: "id", in: "path", required: true, schema: { type: "string", pattern: "^c_[0-9a-f]{32}$" } }],
           responses: {
-            "200": { description: "The record, its digest verified.", content: { "application/json": { schema: { $ref: "#/components/schemas/CalculationRecord" } } } },
+            "200": recordResponse("The record, its digest verified."),
             "404": problemResponse("No calculation under this id."),
             "500": problemResponse("The stored record failed its integrity check."),
           },
