@@ -59,6 +59,7 @@ const schema = z
     outcome: z.enum(["means", "proportions"]).default("means")
       .describe("Kind of primary outcome: a continuous measurement compared as means, or a binary response compared as proportions."),
     solveFor: z.enum(["sample-size", "power"]).default("sample-size")
+      .meta({ title: "What to work out" })
       .describe("What to compute: the participants per cell for a target power, or the power with a given number per cell."),
     method: z.enum(["exact-t", "normal", "normal-corrected"]).optional()
       .describe("Means: exact-t (noncentral t, the default) or normal. Proportions: normal (the default) or normal-corrected (with continuity correction)."),

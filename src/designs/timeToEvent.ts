@@ -54,6 +54,7 @@ const { alpha, power, sides, allocationRatio } = comparativeCommonFields;
 const schema = z
   .strictObject({
     solveFor: z.enum(["sample-size", "power", "hazard-ratio"]).default("sample-size")
+      .meta({ title: "What to work out" })
       .describe("What to compute: the events and enrolment for a target power, the power given a number of events, or the smallest hazard ratio detectable with a number of events."),
     method: z.enum(["schoenfeld", "freedman"]).default("schoenfeld")
       .describe("Formula for the required number of events: Schoenfeld (1983), from the log hazard ratio, or Freedman (1982), from the expected share of events per arm under the alternative."),

@@ -37,6 +37,7 @@ const MAX_PER_ARM = 100000;
 const schema = z
   .strictObject({
     solveFor: z.enum(["sample-size", "power", "difference"]).default("sample-size")
+      .meta({ title: "What to work out" })
       .describe("What to compute: the sample size for a target power, the power at given arm sizes, or the smallest difference detectable at given arm sizes."),
     hypothesis: z.enum(["superiority", "non-inferiority", "equivalence"]).default("superiority")
       .describe("Superiority: the arms differ. Non-inferiority: the experimental arm is not worse than control by more than the margin. Equivalence: the arms differ by less than the margin (two one-sided tests)."),

@@ -17,6 +17,7 @@ export const comparativeCommonFields = {
 };
 
 export const solveForField = z.enum(["sample-size", "power", "difference"]).default("sample-size")
+      .meta({ title: "What to work out" })
   .describe("What to compute: the sample size for a target power, the power at given arm sizes, or the smallest difference detectable at given arm sizes.");
 
 /** A group size given when solving for power or for the difference. */
