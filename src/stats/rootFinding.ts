@@ -68,18 +68,3 @@ export function findRoot(f: (x: number) => number, lo: number, hi: number, optio
   }
   return b;
 }
-
-/**
- * Smallest integer n in [lo, hi] with predicate(n) true, for a predicate that is
- * monotone (false then true). Returns undefined when predicate(hi) is false.
- */
-export function smallestInteger(predicate: (n: number) => boolean, lo: number, hi: number): number | undefined {
-  if (!predicate(hi)) return undefined;
-  let a = lo;
-  let b = hi;
-  while (a < b) {
-    const mid = Math.floor((a + b) / 2);
-    if (predicate(mid)) b = mid; else a = mid + 1;
-  }
-  return a;
-}
