@@ -1,7 +1,9 @@
 /**
- * A minimal timing harness for `npm run bench`: warm up, then time repeated
- * calls and report the median. Figures are for comparison within one run.
+ * The timing harness of `npm run bench`, on tinybench: warm up, time repeated
+ * calls in this process and report the median. Figures compare within one run.
  */
+import { Bench } from "tinybench";
+
 export interface BenchResult {
   name: string;
   medianMs: number;
@@ -15,34 +17,32 @@ interface BenchOptions {
   budgetMs?: number;
 }
 
+function timer(name: string, options: BenchOptions): Bench {
+  // Exactly `runs` timed calls: the time budget is zero, so the iteration count decides.
+  return new Bench({ name, iterations: options.runs ?? 15, time: 0, warmupIterations: options.warmup ?? 3, warmupTime: 0, throws: true });
+}
+
 /** Median of the timed runs, printed with its share of the budget when there is one. */
-function report(name: string, times: number[], options: BenchOptions): BenchResult {
-  times.sort((a, b) => a - b);
-  const runs = times.length;
-  const result: BenchResult = { name, medianMs: times[Math.floor(runs / 2)]!, runs, budgetMs: options.budgetMs };
-  const budget = options.budgetMs !== undefined ? `  budget ${options.budgetMs} ms: ${result.medianMs <= options.budgetMs ? "within" : "OVER"} (${(result.medianMs / options.budgetMs).toFixed(2)} of budget)` : "";
-  console.log(`${name.padEnd(60)} median ${result.medianMs.toFixed(2).padStart(9)} ms over ${runs} runs${budget}`);
-  return result;
+function report(name: string, b: Bench, options: BenchOptions): BenchResult {
+  const task = b.tasks[0]!;
+  const result = task.result;
+  if (!("latency" in result)) throw new Error(`${name}: no timings (${result.state})`);
+  const out: BenchResult = { name, medianMs: result.latency.p50, runs: result.latency.samplesCount, budgetMs: options.budgetMs };
+  const budget = options.budgetMs !== undefined ? `  budget ${options.budgetMs} ms: ${out.medianMs <= options.budgetMs ? "within" : "OVER"} (${(out.medianMs / options.budgetMs).toFixed(2)} of budget)` : "";
+  console.log(`${name.padEnd(60)} median ${out.medianMs.toFixed(2).padStart(9)} ms over ${out.runs} runs${budget}`);
+  return out;
 }
 
 export function bench(name: string, fn: () => unknown, options: BenchOptions = {}): BenchResult {
-  for (let i = 0; i < (options.warmup ?? 3); i++) fn();
-  const times: number[] = [];
-  for (let i = 0; i < (options.runs ?? 15); i++) {
-    const start = performance.now();
-    fn();
-    times.push(performance.now() - start);
-  }
-  return report(name, times, options);
+  const b = timer(name, options);
+  b.add(name, () => { fn(); });
+  b.runSync();
+  return report(name, b, options);
 }
 
 export async function benchAsync(name: string, fn: () => Promise<unknown>, options: BenchOptions = {}): Promise<BenchResult> {
-  for (let i = 0; i < (options.warmup ?? 3); i++) await fn();
-  const times: number[] = [];
-  for (let i = 0; i < (options.runs ?? 15); i++) {
-    const start = performance.now();
-    await fn();
-    times.push(performance.now() - start);
-  }
-  return report(name, times, options);
+  const b = timer(name, options);
+  b.add(name, async () => { await fn(); });
+  await b.run();
+  return report(name, b, options);
 }

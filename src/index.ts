@@ -3,6 +3,7 @@ import { Hono } from "hono";
 import type { Env } from "./env.js";
 import { createRouter, readRouter } from "./api/calculations.js";
 import { designsRouter } from "./api/designs.js";
+import { healthRouter } from "./api/health.js";
 import { openApiRouter } from "./api/openapi.js";
 import { pagesRouter } from "./api/pages.js";
 import { permalinkRouter } from "./api/permalinks.js";
@@ -16,6 +17,7 @@ app.route("/api/v1/designs", createRouter);
 app.route("/api/v1/designs", previewRouter);
 app.route("/api/v1/calculations", readRouter);
 app.route("/api/v1", openApiRouter);
+app.route("/api/v1", healthRouter);
 app.route("/c", permalinkRouter);
 app.route("/", pagesRouter);
 

@@ -2,6 +2,7 @@
  * Freezing a calculation: normalize, derive the id, serve a stored record or
  * compute, seal and store a new one. The only place that joins designs and storage.
  */
+import { COMPUTE_BUDGET_MS, OverBudgetError, assertWithinBudget } from "../designs/budget.js";
 import { type AnyDesign, InfeasibleDesignError } from "../designs/design.js";
 import { canonicalJson } from "../store/canonical.js";
 import { type CalculationRecord, calculationId, sealRecord } from "../store/record.js";
@@ -14,16 +15,34 @@ export function freezeValue<T>(value: T): T {
   return JSON.parse(canonicalJson(value)) as T;
 }
 
-/** The design computed on frozen inputs, its result frozen the same way; an infeasible design becomes a 422. */
+/**
+ * The design computed on frozen inputs, its result frozen the same way. Work
+ * beyond the compute budget is refused before it starts, and an infeasible
+ * design is a 422.
+ */
 export function computeFrozen(design: AnyDesign, inputs: unknown): unknown {
   try {
+    assertWithinBudget(design, inputs);
     return freezeValue(design.compute(inputs));
   } catch (error) {
+    if (error instanceof OverBudgetError) throw overBudgetProblem(error);
     if (error instanceof InfeasibleDesignError) {
       throw new ProblemError(422, "infeasible-design", "No design meets these constraints", error.message, error.details);
     }
     throw error;
   }
+}
+
+/** A 422 that names the fields to reduce, as `field` (the first, which forms mark) and as paths and pointers. */
+function overBudgetProblem(error: OverBudgetError): ProblemError {
+  const { milliseconds, breakdown, reduce } = error.estimate;
+  return new ProblemError(422, "over-compute-budget", "This calculation needs more computing than one request may use", error.message, {
+    estimatedMilliseconds: Math.ceil(milliseconds),
+    budgetMilliseconds: COMPUTE_BUDGET_MS,
+    breakdown,
+    ...(reduce[0] !== undefined ? { field: reduce[0] } : {}),
+    reduce: reduce.map((name) => ({ path: `inputs.${name}`, pointer: `/inputs/${name}` })),
+  });
 }
 
 export async function freezeCalculation(

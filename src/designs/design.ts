@@ -30,12 +30,32 @@ export interface Design<I = unknown, R = unknown> {
   example: I;
   /** Pure and deterministic; simulations take a seed. Throws InfeasibleDesignError. */
   compute(input: I): R;
+  /**
+   * What compute(input) would cost, estimated from the inputs alone and cheaply,
+   * before computing: the service refuses (422) an input whose estimate is above
+   * COMPUTE_BUDGET_MS (budget.ts) instead of running into the Worker's CPU limit.
+   */
+  cost?(input: I): WorkEstimate;
   /** The clinical question in plain words, filled in from the inputs. */
   question(input: I): string;
   /** What the report shows, after the question and inputs. */
   document(input: I, result: R): Section[];
   references: Citation[];
   cautions: string[];
+}
+
+/** The work of one calculation, estimated before it is done. */
+export interface WorkEstimate {
+  /**
+   * CPU milliseconds on the reference machine (the one `npm run bench` reports),
+   * an upper estimate: the design's count of work times a cost per unit measured
+   * on its heaviest cases.
+   */
+  milliseconds: number;
+  /** How the work was counted, in words a user can act on: "2 scenarios × 500 trials × 10 cohorts × 5 doses". */
+  breakdown: string;
+  /** Input fields whose reduction reduces the work, the most effective first (names within inputs). */
+  reduce: string[];
 }
 
 /** Valid inputs for which no design meets the constraints within the bounds (HTTP 422). */

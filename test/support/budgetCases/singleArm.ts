@@ -1,0 +1,3 @@
+import type { BudgetCaseTable } from "./types.js";
+
+export const singleArmCases: BudgetCaseTable = {};
