@@ -10,23 +10,8 @@ import { type ReportDocument, buildReport } from "../src/report/build.js";
 import { REPORT_FONTS } from "../src/report/fonts.js";
 import { renderHtml } from "../src/report/html.js";
 import { renderPdf } from "../src/report/pdf.js";
+import { memoryEnv } from "../test/support/memoryBindings.js";
 import { exampleRecord } from "../test/support/report.js";
-
-/** The KV calls the record store makes, over a Map. */
-class MemoryKV {
-  readonly values = new Map<string, string | ArrayBuffer>();
-  puts = 0;
-  async get(key: string, type: "text" | "arrayBuffer"): Promise<string | ArrayBuffer | null> {
-    const v = this.values.get(key);
-    if (v === undefined) return null;
-    if (type === "arrayBuffer") return typeof v === "string" ? new TextEncoder().encode(v).buffer : v;
-    return typeof v === "string" ? v : new TextDecoder().decode(v);
-  }
-  async put(key: string, value: string | ArrayBuffer | Uint8Array): Promise<void> {
-    this.puts++;
-    this.values.set(key, typeof value === "string" ? value : value instanceof Uint8Array ? value.slice().buffer : value);
-  }
-}
 
 const docs: ReportDocument[] = [];
 for (const design of catalog) {
@@ -45,8 +30,8 @@ console.log(`${"  CPU time per PDF (user + system, warm-up runs included)".padEn
 bench(`HTML of the largest example (${largest.designId})`, () => renderHtml(largest), { runs: 30 });
 
 // A cached permalink: freeze through the API, draw the PDF once, then count what the cached answers do.
-const kv = new MemoryKV();
-const env = { CALCULATIONS: kv as unknown as KVNamespace };
+const env = memoryEnv();
+const kv = env.CALCULATIONS;
 const design = catalog.find((d) => d.id === largest.designId)!;
 const created = await app.fetch(new Request(`https://trialwright.example/api/v1/designs/${design.id}/calculations`, {
   method: "POST", headers: { "content-type": "application/json" }, body: JSON.stringify({ inputs: design.example, label: "TW-417 cached" }),

@@ -30,3 +30,4 @@ app.onError((error, c) => {
 });
 
 export default app;
+export { CalculationLedger } from "./store/ledger.js";

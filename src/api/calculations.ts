@@ -2,6 +2,7 @@
 import { Hono } from "hono";
 import type { Env } from "../env.js";
 import { ID_PATTERN } from "../store/record.js";
+import { durableLedger } from "../store/ledger.js";
 import { RecordStore } from "../store/recordStore.js";
 import { requireDesign } from "./designs.js";
 import { ProblemError } from "./problem.js";
@@ -21,7 +22,10 @@ export const createRouter = new Hono<{ Bindings: Env }>().post("/:design/calcula
   requireJsonContent(c.req.header("content-type"));
   const text = await readBoundedText(c.req.raw);
   const { inputs, label } = parseCalculationRequest(design, text);
-  const { created, record } = await freezeCalculation(new RecordStore(c.env.CALCULATIONS), design, inputs, label);
+  const outcome = await freezeCalculation(new RecordStore(c.env.CALCULATIONS), durableLedger(c.env.LEDGER), design, inputs, label);
+  // Not frozen: the result travels inside the problem, with no id, Location or link to a permalink that does not exist.
+  if (!outcome.frozen) throw outcome.problem;
+  const { created, record } = outcome;
   c.header("Location", `/api/v1/calculations/${record.id}`);
   c.header("Link", `</c/${record.id}>; rel="alternate"; type="text/html"`);
   return c.json(record, created ? 201 : 200);

@@ -26,8 +26,15 @@ const INPUT_PROBLEMS = {
   "404": problemResponse("Unknown design."),
   "413": problemResponse("Body larger than 64 KiB."),
   "415": problemResponse("Body is not JSON."),
-  "422": problemResponse("Valid inputs, but no design meets the constraints within the bounds."),
+  "422": problemResponse("Valid inputs, but no design meets the constraints within the bounds (`infeasible-design`), or the calculation would need more than one request's compute budget (`over-compute-budget`, naming the fields to reduce)."),
+  "429": problemResponse("Too many calculations from this client in a short time (only where the rate limit is configured); see Retry-After."),
 };
+
+const notFrozenResponse = (description: string) => ({
+  description,
+  headers: { "Retry-After": { description: "Seconds after which to send the request again.", schema: { type: "integer" } } },
+  content: { "application/problem+json": { schema: { $ref: "#/components/schemas/NotFrozenProblem" } } },
+});
 
 const schemaName = (designId: string): string =>
   designId.split("-").map((p) => p.charAt(0).toUpperCase() + p.slice(1)).join("") + "Inputs";
@@ -65,6 +72,8 @@ export function openApiDocument(): Record<string, unknown> {
           "201": recordResponse("A new calculation was computed and frozen."),
           "200": recordResponse("The same request was frozen before; the stored record is returned."),
           ...INPUT_PROBLEMS,
+          "500": { ...notFrozenResponse("The record stored under this id failed its integrity check (`integrity-failure`); it is not served, and the calculation computed afresh is in `calculation`, not frozen."), headers: {} },
+          "503": notFrozenResponse("Storage failed (`storage-unavailable`): the calculation was computed and is in `calculation`, but it was not frozen and has no permalink. The same request sent again later freezes it under the same id."),
         },
       },
     };
@@ -112,6 +121,7 @@ export function openApiDocument(): Record<string, unknown> {
             "200": recordResponse("The record, its digest verified."),
             "404": problemResponse("No calculation under this id."),
             "500": problemResponse("The stored record failed its integrity check."),
+            "503": problemResponse("Storage could not be read; try again after Retry-After seconds."),
           },
         },
       },
@@ -120,8 +130,11 @@ export function openApiDocument(): Record<string, unknown> {
           operationId: "permalink",
           summary: "Permalink of a calculation: the report as HTML",
           parameters: [{ name: "id", in: "path", required: true, description: "The id, optionally followed by .json", schema: { type: "string" } }],
-          responses: { "200": { description: "The report.", content: { "text/html": { schema: { type: "string" } }, "application/json": { schema: { $ref: "#/components/schemas/CalculationRecord" } } } }, "304": { description: "Not modified (ETag is the digest)." }, "404": problemResponse("No calculation under this id.") },
+          responses: { "200": { description: "The report.", content: { "text/html": { schema: { type: "string" } }, "application/json": { schema: { $ref: "#/components/schemas/CalculationRecord" } } } }, "304": { description: "Not modified (ETag is the digest)." }, "404": problemResponse("No calculation under this id."), "500": problemResponse("The stored record failed its integrity check."), "503": problemResponse("Storage could not be read; try again after Retry-After seconds.") },
         },
+      },
+      "/api/v1/health": {
+        get: { operationId: "health", summary: "Answers at once when the Worker runs; touches no storage", responses: { "200": { description: "Running.", content: { "application/json": { schema: { type: "object", required: ["status", "engine"], properties: { status: { const: "ok" }, engine: { type: "string" } } } } } } } },
       },
     },
     components: {
@@ -139,6 +152,25 @@ export function openApiDocument(): Record<string, unknown> {
             instance: { type: "string" },
             errors: { type: "array", items: { type: "object", required: ["path", "pointer", "message"], properties: { path: { type: "string" }, pointer: { type: "string" }, message: { type: "string" } } } },
           },
+        },
+        NotFrozenProblem: {
+          description: "A problem whose calculation was computed but not frozen: no id, no digest, no permalink.",
+          allOf: [
+            { $ref: "#/components/schemas/Problem" },
+            {
+              type: "object",
+              required: ["frozen", "calculation"],
+              properties: {
+                frozen: { const: false },
+                retryAfterSeconds: { type: "integer" },
+                calculation: {
+                  type: "object",
+                  required: ["design", "designVersion", "engine", "inputs", "result"],
+                  properties: { design: { type: "string" }, designVersion: { type: "integer" }, engine: { type: "string" }, inputs: { type: "object" }, label: { type: "string" }, result: { type: "object" } },
+                },
+              },
+            },
+          ],
         },
         CalculationRecord: {
           type: "object",

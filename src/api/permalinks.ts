@@ -58,7 +58,11 @@ function reportFor(c: Context, record: CalculationRecord): ReportDocument {
 async function pdfBytes(store: RecordStore, id: string, host: string, report: () => ReportDocument, paper: "a4" | "letter"): Promise<{ bytes: ArrayBuffer | Uint8Array; cached: boolean }> {
   // The PDF prints its permalink, so a copy drawn for one host name is not served under another.
   const key = `pdf-v${PDF_RENDERING_VERSION}-${paper}-${host}`;
-  const hit = await store.getRendering(id, key);
+  const hit = await store.getRendering(id, key).catch((error: unknown) => {
+    // An unreadable cache costs a render, not this answer.
+    console.error(error);
+    return null;
+  });
   if (hit) return { bytes: hit, cached: true };
   const bytes = await renderPdf(report(), REPORT_FONTS, { paper });
   try {

@@ -51,7 +51,12 @@ export class ProblemError extends Error {
 
 export function problemResponse(c: Context, error: ProblemError): Response {
   const body = error.toProblem(new URL(c.req.url).pathname);
-  return c.body(JSON.stringify(body, null, 2), error.status, { "content-type": "application/problem+json; charset=utf-8" });
+  const retry = error.extensions.retryAfterSeconds;
+  return c.body(JSON.stringify(body, null, 2), error.status, {
+    "content-type": "application/problem+json; charset=utf-8",
+    "cache-control": "no-store",
+    ...(typeof retry === "number" ? { "retry-after": String(retry) } : {}),
+  });
 }
 
 export function pointerOf(path: ReadonlyArray<PropertyKey>): string {

@@ -1,13 +1,12 @@
 /**
- * Records in KV under "calc:<id>", stored as canonical JSON. Knows nothing of designs.
- *
- * KV has no compare-and-set, so "put only if absent" is a read followed by a write.
- * Two identical requests racing within KV's propagation window could both write;
- * they carry the same inputs and result, differing only in createdAt, and the
- * later write wins. DEVELOPERS.md records this trade-off.
+ * Records in KV under "calc:<id>", stored as canonical JSON, verified on every
+ * read. Knows nothing of designs. Which record an id stands for is decided by
+ * the ledger (ledger.ts) before a record is written here; KV serves reads.
+ * Every KV failure surfaces as StorageUnavailableError.
  */
 import { canonicalJson } from "./canonical.js";
 import { type CalculationRecord, recordDigest } from "./record.js";
+import { StorageUnavailableError } from "./storageError.js";
 
 export type ReadOutcome =
   | { status: "found"; record: CalculationRecord }
@@ -16,46 +15,56 @@ export type ReadOutcome =
 
 const recordKey = (id: string): string => `calc:${id}`;
 
+/** Checks stored text against the id it was stored under: valid JSON, the same id, a matching digest, canonical bytes. */
+export async function verifyRecordText(id: string, text: string): Promise<Exclude<ReadOutcome, { status: "missing" }>> {
+  let parsed: unknown;
+  try {
+    parsed = JSON.parse(text);
+  } catch {
+    return { status: "corrupt", reason: "the stored bytes are not valid JSON" };
+  }
+  if (typeof parsed !== "object" || parsed === null || Array.isArray(parsed)) {
+    return { status: "corrupt", reason: "the stored value is not a record" };
+  }
+  const record = parsed as CalculationRecord;
+  if (record.id !== id) return { status: "corrupt", reason: "the stored record carries another id" };
+  const computed = await recordDigest(record);
+  if (computed !== record.digest) {
+    return { status: "corrupt", reason: "the digest does not match the content", storedDigest: record.digest, computedDigest: computed };
+  }
+  if (canonicalJson(record) !== text) return { status: "corrupt", reason: "the stored bytes are not in canonical form" };
+  return { status: "found", record };
+}
+
+async function attempt<T>(what: string, operation: () => Promise<T>): Promise<T> {
+  try {
+    return await operation();
+  } catch (error) {
+    throw new StorageUnavailableError(what, error);
+  }
+}
+
 export class RecordStore {
   constructor(private readonly kv: KVNamespace) {}
 
-  /** Reads and verifies a record: the digest must match its content and the key its id. */
+  /** Reads and verifies a record. */
   async read(id: string): Promise<ReadOutcome> {
-    const text = await this.kv.get(recordKey(id), "text");
+    const text = await attempt("the record could not be read", () => this.kv.get(recordKey(id), "text"));
     if (text === null) return { status: "missing" };
-    let parsed: unknown;
-    try {
-      parsed = JSON.parse(text);
-    } catch {
-      return { status: "corrupt", reason: "the stored bytes are not valid JSON" };
-    }
-    if (typeof parsed !== "object" || parsed === null || Array.isArray(parsed)) {
-      return { status: "corrupt", reason: "the stored value is not a record" };
-    }
-    const record = parsed as CalculationRecord;
-    if (record.id !== id) return { status: "corrupt", reason: "the stored record carries another id" };
-    const computed = await recordDigest(record);
-    if (computed !== record.digest) {
-      return { status: "corrupt", reason: "the digest does not match the content", storedDigest: record.digest, computedDigest: computed };
-    }
-    if (canonicalJson(record) !== text) return { status: "corrupt", reason: "the stored bytes are not in canonical form" };
-    return { status: "found", record };
+    return verifyRecordText(id, text);
   }
 
-  /** Writes the record unless one is already stored under its id; returns what is stored. */
-  async putIfAbsent(record: CalculationRecord): Promise<{ created: boolean; outcome: ReadOutcome }> {
-    const existing = await this.read(record.id);
-    if (existing.status !== "missing") return { created: false, outcome: existing };
-    await this.kv.put(recordKey(record.id), canonicalJson(record));
-    return { created: true, outcome: { status: "found", record } };
+  /** Writes a record's canonical bytes: the record the ledger gave for its id, so a write never replaces one record with another. */
+  async write(id: string, canonicalText: string): Promise<void> {
+    await attempt("the record could not be written", () => this.kv.put(recordKey(id), canonicalText));
   }
 
   /** A cached rendering of a record (the PDF), keyed by id and format. */
   async getRendering(id: string, format: string): Promise<ArrayBuffer | null> {
-    return this.kv.get(`render:${format}:${id}`, "arrayBuffer");
+    return attempt("the rendering cache could not be read", () => this.kv.get(`render:${format}:${id}`, "arrayBuffer"));
   }
 
   async putRendering(id: string, format: string, bytes: ArrayBuffer | Uint8Array): Promise<void> {
-    await this.kv.put(`render:${format}:${id}`, bytes);
+    await attempt("the rendering could not be cached", () => this.kv.put(`render:${format}:${id}`, bytes));
   }
 }

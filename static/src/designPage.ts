@@ -194,7 +194,7 @@ class DesignPage {
     replaceChildren(this.problem, h("p", { class: "problem-title" }, problem.title), h("p", {}, problem.detail));
     this.problem.hidden = false;
     if (this.hasResult) this.result.classList.add("stale");
-    this.say(problem.status === 422 ? "No design meets these constraints." : "No result.");
+    this.say(problem.status === 422 ? problem.title : "No result.");
   }
 
   private showFieldErrors(errors: FieldError[], message: string): void {
@@ -224,6 +224,15 @@ class DesignPage {
       const label = this.labelInput.value.trim();
       const answer = await callApi<CalculationRecord>(`/api/v1/designs/${encodeURIComponent(this.design.id)}/calculations`, { body: { inputs: values, ...(label ? { label } : {}) } });
       if (!answer.ok) {
+        if (answer.problem.frozen === false) {
+          // Storage failed after computing: the result on screen stands, only the link is missing.
+          const retry = typeof answer.problem.retryAfterSeconds === "number" ? ` in ${answer.problem.retryAfterSeconds} seconds` : " later";
+          replaceChildren(this.frozen, h("div", { class: "problem not-frozen" },
+            h("p", { class: "problem-title" }, answer.problem.title),
+            h("p", {}, `The result shown was computed but could not be stored, so it has no permanent link yet. Try freezing again${retry}: the same inputs and title will get the same link.`)));
+          this.say("Not frozen: storage is unavailable.");
+          return;
+        }
         if (answer.problem.errors?.some((e) => e.pointer === "/label")) {
           replaceChildren(this.frozen, h("p", { class: "field-error" }, answer.problem.errors.find((e) => e.pointer === "/label")!.message));
           this.labelInput.setAttribute("aria-invalid", "true");
