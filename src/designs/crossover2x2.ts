@@ -128,14 +128,18 @@ export function crossoverPower(test: CrossoverTest, withinSubjectSd: number, seq
   return upper(crit(1 - test.alpha), (delta + shift) / se);
 }
 
+/** The smallest difference detected with the target power at the given sequence sizes, to 1e-10 standard errors. */
+function detectableDifference(input: Crossover2x2Input, sequences: ArmSizes, nullDelta: number): number {
+  const se = crossoverStandardError(input.withinSubjectSd, sequences);
+  return detectableEffect((d) => crossoverPower(input, input.withinSubjectSd, sequences, d), input.power, nullDelta, nullDelta + 50 * se, se);
+}
+
 export function computeCrossover2x2(input: Crossover2x2Input): Crossover2x2Result {
   const sd = input.withinSubjectSd;
   const powerAt = (s: ArmSizes, d: number): number => crossoverPower(input, sd, s, d);
   const given: ArmSizes = { n1: input.n1!, n2: input.n2! };
   const nullDelta = input.hypothesis === "non-inferiority" ? -input.margin! : 0;
-  const delta = input.solveFor === "difference"
-    ? detectableEffect((d) => powerAt(given, d), input.power, nullDelta, nullDelta + 50 * crossoverStandardError(sd, given))
-    : input.delta!;
+  const delta = input.solveFor === "difference" ? detectableDifference(input, given, nullDelta) : input.delta!;
   const powerAtSizes = rememberPower((s) => powerAt(s, delta));
   let sequences = given;
   if (input.solveFor === "sample-size") {
@@ -246,7 +250,7 @@ function documentCrossover(input: Crossover2x2Input, r: Crossover2x2Result): Sec
 
 export const crossover2x2: Design<Crossover2x2Input, Crossover2x2Result> = {
   id: "crossover-2x2",
-  version: 2,
+  version: 3,
   stage: "comparative",
   title: "Two-period crossover (AB/BA)",
   summary: "Sample size, power or detectable difference for an AB/BA crossover comparing means with the within-subject standard deviation, by the exact t method or the normal approximation.",

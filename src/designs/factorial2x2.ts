@@ -234,7 +234,8 @@ export function interactionPower(input: Factorial2x2Input, perCell: number): num
   if (input.outcome === "means" && input.method === "exact-t") {
     const df = 4 * perCell - 4;
     const c = studentTQuantile(p, df);
-    return noncentralTSurvival(c, df, ncp) + (input.sides === 2 ? noncentralTCdf(-c, df, ncp) : 0);
+    // The two tails are computed separately and can sum past 1 when power is near 1.
+    return Math.min(1, noncentralTSurvival(c, df, ncp) + (input.sides === 2 ? noncentralTCdf(-c, df, ncp) : 0));
   }
   const c = normalQuantile(p);
   return normalCdf(ncp - c) + (input.sides === 2 ? normalCdf(-ncp - c) : 0);
@@ -248,6 +249,16 @@ function requiredPerCell(powerAt: (perCell: number) => number, target: number, f
     if (error instanceof InfeasibleDesignError) return null;
     throw error;
   }
+}
+
+/**
+ * Means: the smallest main effect detected with the target power with m per
+ * cell, to 1e-10 of its standard error σ/√m; the ceiling, 50 standard errors,
+ * is far beyond any detectable effect.
+ */
+function detectableMeansEffect(input: Factorial2x2Input, perCell: number, level: number): number {
+  const se = input.sd! / Math.sqrt(perCell);
+  return detectableEffect((e) => marginMeansPower(input, e, perCell, level), input.power, 0, 50 * se, se);
 }
 
 const effectField = (input: Factorial2x2Input, factor: Factor): string => (input.outcome === "means" ? `effect${factor}` : `rate${factor}`);
@@ -298,10 +309,7 @@ export function computeFactorial2x2(input: Factorial2x2Input): Factorial2x2Resul
     powerUnderHolm: input.multiplicity === "holm" ? holm(factor, factor === "A" ? "B" : "A", nPerCell) : null,
     marginRates: input.outcome === "proportions" ? marginRates(input, factor) : null,
   }));
-  // The ceiling is far beyond any detectable effect: 50 standard errors of a main effect.
-  const detectableMainEffect = input.outcome === "means"
-    ? detectableEffect((e) => marginMeansPower(input, e, nPerCell, level), input.power, 0, (50 * input.sd!) / Math.sqrt(nPerCell))
-    : null;
+  const detectableMainEffect = input.outcome === "means" ? detectableMeansEffect(input, nPerCell, level) : null;
   const interactionPerCell = requiredPerCell(interactionAt, input.power, "interaction");
   const enrolledPerCell = inflateForDropout(nPerCell, input.dropout);
   const sizes = curveSizes(nPerCell, 2);
@@ -474,7 +482,7 @@ function documentFactorial(input: Factorial2x2Input, r: Factorial2x2Result): Sec
 
 export const factorial2x2: Design<Factorial2x2Input, Factorial2x2Result> = {
   id: "factorial-2x2",
-  version: 3,
+  version: 4,
   stage: "comparative",
   title: "Factorial 2×2 (two treatments in one trial)",
   summary: "Participants per cell for testing two treatments' main effects at the margins of a 2×2 factorial trial, with a choice of multiplicity adjustment, and the size an interaction would need beside it; means or proportions.",

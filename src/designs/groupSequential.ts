@@ -186,7 +186,7 @@ function documentGroupSequential(input: GroupSequentialInput, r: GroupSequential
 
 export const groupSequential: Design<GroupSequentialInput, GroupSequentialResult> = {
   id: "group-sequential",
-  version: 1,
+  version: 2,
   stage: "monitoring",
   title: "Group-sequential boundaries",
   summary: "Efficacy and optional non-binding futility boundaries for up to 10 looks by alpha and beta spending or the classical Pocock and O'Brien-Fleming boundaries, with exit probabilities, the inflation factor and the expected information.",

@@ -110,7 +110,8 @@ function equivalencePowerExact(delta: number, margin: number, se: number, tCrit:
   const upper = Math.min(df * ((margin / (tCrit * se)) ** 2), df + 60 * Math.sqrt(2 * df) + 60);
   const lower = Math.max(0, df - 60 * Math.sqrt(2 * df));
   if (upper <= lower) return 0;
-  return integrate((w) => inner(Math.sqrt(w / df)) * density(w), lower, upper, { absoluteTolerance: 1e-13, relativeTolerance: 1e-11 });
+  // The quadrature's error can carry the integral a few 1e-10 past 1 when power is near 1.
+  return Math.min(1, integrate((w) => inner(Math.sqrt(w / df)) * density(w), lower, upper, { absoluteTolerance: 1e-13, relativeTolerance: 1e-11 }));
 }
 
 /** Power at given arm sizes and true difference. */
@@ -174,7 +175,8 @@ export function computeTwoMeans(input: TwoMeansInput): TwoMeansResult {
 /** Smallest favourable difference with power ≥ target at the given sizes. */
 function solveDifference(input: TwoMeansInput, arms: ArmSizes): number {
   const target = input.power;
-  const ceiling = 50 * input.sd * Math.sqrt(1 / arms.n1 + 1 / arms.n2) + (input.margin ?? 0);
+  const se = standardError(input, arms);
+  const ceiling = 50 * se + (input.margin ?? 0);
   if (input.hypothesis === "equivalence") {
     // The largest |δ| inside the margin still shown equivalent with the target power.
     const m = input.margin!;
@@ -182,10 +184,10 @@ function solveDifference(input: TwoMeansInput, arms: ArmSizes): number {
     if (powerAtZero < target) {
       throw new InfeasibleDesignError(`Even with no true difference, these arm sizes give power ${powerAtZero.toFixed(3)} to show equivalence, below the target ${target}.`, { field: "n1" });
     }
-    return m - detectableEffect((e) => twoMeansPower(input, arms, m - e), target, 0, m);
+    return m - detectableEffect((e) => twoMeansPower(input, arms, m - e), target, 0, m, se);
   }
   const lo = input.hypothesis === "non-inferiority" ? -input.margin! : 0;
-  return detectableEffect((e) => twoMeansPower(input, arms, e), target, lo, ceiling);
+  return detectableEffect((e) => twoMeansPower(input, arms, e), target, lo, ceiling, se);
 }
 
 const fmt = (x: number, d = 3): string => x.toFixed(d);
@@ -240,7 +242,7 @@ function documentTwoMeans(input: TwoMeansInput, r: TwoMeansResult): Section[] {
 
 export const twoMeans: Design<TwoMeansInput, TwoMeansResult> = {
   id: "two-means",
-  version: 2,
+  version: 3,
   stage: "comparative",
   title: "Two means (parallel groups)",
   summary: "Sample size or power for comparing a continuous outcome between two arms: superiority, non-inferiority or equivalence, by the exact t method or the normal approximation.",

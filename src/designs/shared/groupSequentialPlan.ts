@@ -145,7 +145,8 @@ function assemble(spec: GroupSequentialSpec, times: readonly number[], b: Bounda
       underAlternative: toExit(altExits[k]!),
     };
   });
-  const sumRejections = (exits: LookExit[]): number => exits.reduce((s, e) => s + e.upper + e.lowerEfficacy, 0);
+  // Exits at separate looks carry the recursion's error (about 1e-7), so their sum can pass 1 when power is near 1.
+  const sumRejections = (exits: LookExit[]): number => Math.min(1, exits.reduce((s, e) => s + e.upper + e.lowerEfficacy, 0));
   return {
     looks,
     drift: b.drift,

@@ -89,15 +89,21 @@ export function smallestSampleSize(search: SizeSearch): ArmSizes & { power: numb
 
 /**
  * The effect at which power equals the target, for power increasing in the
- * effect on [lo, hi]. Throws when even the largest effect is not detectable.
+ * effect on [lo, hi], resolved to 1e-10 × `scale`. Designs whose effect is in
+ * outcome units pass one standard error as the scale, so the answer is as
+ * precise whatever the units (an absolute 1e-10 is coarse when the standard
+ * deviation itself is 1e-9). Throws when even the largest effect is not detectable.
  */
-export function detectableEffect(powerAtEffect: (effect: number) => number, target: number, lo: number, hi: number): number {
+export function detectableEffect(powerAtEffect: (effect: number) => number, target: number, lo: number, hi: number, scale = 1): number {
   if (powerAtEffect(hi) < target) {
     throw new InfeasibleDesignError(`Even an effect of ${hi} is not detected with power ${target} at this size.`, { bound: hi });
   }
   if (powerAtEffect(lo) >= target) return lo;
-  return findRoot((e) => powerAtEffect(e) - target, lo, hi, { tolerance: 1e-10 });
+  return findRoot((e) => powerAtEffect(e) - target, lo, hi, { tolerance: DETECTABLE_EFFECT_RESOLUTION * scale });
 }
+
+/** Resolution of a detectable effect, in units of its scale (one standard error for effects in outcome units). */
+export const DETECTABLE_EFFECT_RESOLUTION = 1e-10;
 
 /** Control-arm sizes for a power curve around n: from about a quarter to twice it. */
 export function curveSizes(n1: number, minimum: number, points = 25): number[] {

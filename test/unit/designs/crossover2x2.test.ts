@@ -113,6 +113,16 @@ describe("validation", () => {
 });
 
 describe("degenerate inputs", () => {
+  it("resolves the detectable difference in standard errors, so a within-subject SD of 1e-9 gives the same standardized answer as 1 (found by the compute-budget audit)", () => {
+    // (z_0.975 + z_0.8) σw √((1/n1 + 1/n2)/2) = 2.801585 × √(1/100000) = 0.00885939 σw (handbook formula, standard
+    // normal table); on 199,998 degrees of freedom the t test is within 1e-5 of it. Before the fix the search
+    // stopped at an absolute 1e-10, which with σw = 1e-9 answered 0.054 σw, where power is 1.
+    for (const sd of [1e-9, 1, 1e9]) {
+      const r = compute({ solveFor: "difference", withinSubjectSd: sd, n1: 100000, n2: 100000, power: 0.8 });
+      expectClose(r.delta / sd, 0.008859390348296596, 1e-5, { sd }, "relative");
+      expectClose(r.power, 0.8, 1e-8, { sd });
+    }
+  });
   it("refuses a within-subject SD below 1e-9, where the standard error underflows and power became NaN (found by the degenerate-input audit)", () => {
     expect(issuesOf({ delta: 1e-15, withinSubjectSd: 5e-324 }).find((i) => i.path === "withinSubjectSd")?.message).toMatch(/at least 1e-9/);
     expect(crossover2x2.input.safeParse({ delta: 1e-8, withinSubjectSd: 1e-9 }).success).toBe(true);

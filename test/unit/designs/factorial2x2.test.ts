@@ -137,5 +137,24 @@ describe("factorial-2x2: report and bounds", () => {
     const r = solve({ sd: 1, effectA: 0.5, effectB: 0.5, interaction: 0.005 });
     expect(r.interaction.requiredPerCell).toBeNull();
     expect(r.nPerCell).toBeGreaterThan(0);
+  });});
+
+describe("factorial-2x2: precision at the edges (found by the compute-budget audit)", () => {
+  it("keeps a two-sided interaction power within [0, 1] when the two tails sum past 1", () => {
+    // Interaction 1 with SD 1 at 615 per cell has noncentrality √615/2 = 12.4, so its power is Φ(12.4 - 1.96) = 1 to
+    // 1e-24 (normal theory); before the fix the two separately computed tails summed to 1.0000000000007.
+    const r = solve({ solveFor: "power", sd: 1, effectA: 1, effectB: 1, interaction: 1, nPerCell: 615 });
+    expect(r.interaction.power).toBeLessThanOrEqual(1);
+    expectClose(r.interaction.power, 1, 1e-9, { nPerCell: 615 });
+    for (const [, p] of r.powerCurves.interaction) expect(p).toBeLessThanOrEqual(1);
+  });
+  it("resolves the detectable main effect in standard errors, so an SD of 1e-9 gives the same standardized answer as 1", () => {
+    // (z_0.975 + z_0.8) σ/√m = 2.801585 × √(1/50000) = 0.01252907 σ at 50,000 per cell (handbook formula, standard
+    // normal table; the margins' t test on 199,998 degrees of freedom is within 1e-5 of it). Before the fix the
+    // search stopped at an absolute 1e-10, coarse beside σ = 1e-9.
+    for (const sd of [1e-9, 1, 1e9]) {
+      const r = solve({ solveFor: "power", sd, effectA: sd, effectB: sd, nPerCell: 50000 });
+      expectClose(r.detectableMainEffect! / sd, 0.012529069984918345, 1e-5, { sd }, "relative");
+    }
   });
 });

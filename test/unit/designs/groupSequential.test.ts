@@ -125,3 +125,17 @@ describe("group-sequential plan", () => {
     }
   });
 });
+
+describe("group-sequential: precision at the edges (found by the compute-budget audit)", () => {
+  it("keeps the power as run within [0, 1] when the looks' exits, each carrying the recursion's error, sum past 1", () => {
+    // A final look at 1.5 times the information planned for power 0.9999 has power above 0.9999 and at most 1
+    // (definition); before the fix the two looks' exits summed to 1.00000005.
+    const r = groupSequential.compute(groupSequential.input.parse({
+      mode: "observed-looks", looks: 2, efficacyBoundary: "hwang-shih-decani", efficacyGamma: -10,
+      futilityBoundary: "obrien-fleming-type", futilityGamma: 1, sides: 1, alpha: 0.001, power: 0.9999,
+      observedFractions: [0.5, 1.5], lastObservedIsFinal: true,
+    }));
+    expect(r.observed!.power).toBeLessThanOrEqual(1);
+    expect(r.observed!.power).toBeGreaterThan(0.9999);
+  });
+});

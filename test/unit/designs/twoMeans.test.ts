@@ -142,6 +142,28 @@ describe("two-means: input bounds", () => {
   });
 });
 
+describe("two-means: precision at the edges (found by the compute-budget audit)", () => {
+  // (z_0.975 + z_0.8) √(2/n) = (1.959964 + 0.841621) × √(2/100000) = 0.01252907 SD (handbook formula,
+  // standard normal table); on 199,998 degrees of freedom the t test's answer lies within 1e-5 of it.
+  const normalTheory = 0.012529069984918345;
+  it("resolves the detectable difference in standard errors, so an SD of 1e-9 gives the same standardized answer as an SD of 1", () => {
+    // Before the fix the search stopped at an absolute 1e-10: with SD 1e-9 it answered 0.087 SD, where power is 1.
+    for (const sd of [1e-9, 1, 1e9]) {
+      const r = solve({ solveFor: "difference", sd, n1: 100000, n2: 100000, power: 0.8 });
+      expectClose(r.delta / sd, normalTheory, 1e-5, { sd }, "relative");
+      expectClose(r.power, 0.8, 1e-8, { sd });
+    }
+  });
+  it("keeps the exact equivalence power within [0, 1] when the quadrature's error passes 1", () => {
+    // Margin 0.05 is 11.2 standard errors at 100,000 per arm, so power is 1 - 2Φ(-(11.18 - 1.645)) = 1 to 1e-20
+    // (normal theory); before the fix the quadrature gave 1.00000000024.
+    const input = twoMeans.input.parse({ solveFor: "power", hypothesis: "equivalence", sides: 1, delta: 0, sd: 1, margin: 0.05, n1: 100000, n2: 100000 });
+    const power = twoMeansPower(input, { n1: 100000, n2: 100000 }, 0);
+    expect(power).toBeLessThanOrEqual(1);
+    expectClose(power, 1, 1e-9, { margin: 0.05 });
+  });
+});
+
 describe("two-means: normalization", () => {
   it("sides defaults to 2 for superiority and 1 for non-inferiority and equivalence", () => {
     expect(twoMeans.input.parse({ delta: 1, sd: 1 }).sides).toBe(2);
