@@ -23,7 +23,7 @@ import { normalCdf, normalQuantile } from "../stats/normal.js";
 import { studentTQuantile } from "../stats/studentT.js";
 import { noncentralTCdf, noncentralTSurvival } from "../stats/noncentralT.js";
 import { integrate } from "../stats/quadrature.js";
-import { logGamma } from "../stats/gamma.js";
+import { LOG_SQRT_2PI, stirlingRemainder } from "../stats/gamma.js";
 import {
   type ArmSizes, armsFromControl, detectableEffect, powerCurve, rememberPower, smallestSampleSize,
 } from "./shared/sizing.js";
@@ -100,18 +100,28 @@ function standardError(input: TwoMeansInput, arms: ArmSizes): number {
   return input.sd * Math.sqrt(1 / arms.n1 + 1 / arms.n2);
 }
 
-/** Exact TOST power: integrate over W = df·S²/σ² ~ χ²_df (Owen 1965). */
+/**
+ * Exact TOST power: integrate over W = df·S²/σ² ~ χ²_df (Owen 1965), in the
+ * variable x = W/df − 1, whose log density with k = df/2,
+ *   (k − 1) log(1 + x) − k x + ½ log k − log √(2π) − R(k)   (R the Stirling remainder),
+ * has no large terms. Written in W it carries rounding noise near 1e-10 at 10⁵
+ * degrees of freedom, which kept the adaptive quadrature from its tolerance
+ * until it had spent its whole panel allowance (twenty times the work).
+ */
 function equivalencePowerExact(delta: number, margin: number, se: number, tCrit: number, df: number): number {
   const a = (margin - delta) / se;
   const b = (-margin - delta) / se;
   const inner = (u: number): number => Math.max(0, normalCdf(a - tCrit * u) - normalCdf(b + tCrit * u));
-  const logNorm = (df / 2) * Math.log(2) + logGamma(df / 2);
-  const density = (w: number): number => (w <= 0 ? 0 : Math.exp((df / 2 - 1) * Math.log(w) - w / 2 - logNorm));
-  const upper = Math.min(df * ((margin / (tCrit * se)) ** 2), df + 60 * Math.sqrt(2 * df) + 60);
-  const lower = Math.max(0, df - 60 * Math.sqrt(2 * df));
+  const k = df / 2;
+  const logFront = 0.5 * Math.log(k) - LOG_SQRT_2PI - stirlingRemainder(k);
+  const density = (x: number): number => (x <= -1 ? 0 : Math.exp((k - 1) * Math.log1p(x) - k * x + logFront));
+  // x has standard deviation √(2/df); beyond 60 of them its density is nil.
+  const spread = Math.sqrt(2 / df);
+  const upper = Math.min((margin / (tCrit * se)) ** 2 - 1, 60 * spread + 60 / df);
+  const lower = Math.max(-1, -60 * spread);
   if (upper <= lower) return 0;
-  // The quadrature's error can carry the integral a few 1e-10 past 1 when power is near 1.
-  return Math.min(1, integrate((w) => inner(Math.sqrt(w / df)) * density(w), lower, upper, { absoluteTolerance: 1e-13, relativeTolerance: 1e-11 }));
+  // The quadrature's error can carry the integral past 1 by rounding when power is near 1.
+  return Math.min(1, integrate((x) => inner(Math.sqrt(1 + x)) * density(x), lower, upper, { absoluteTolerance: 1e-13, relativeTolerance: 1e-11 }));
 }
 
 /** Power at given arm sizes and true difference. */
@@ -242,7 +252,7 @@ function documentTwoMeans(input: TwoMeansInput, r: TwoMeansResult): Section[] {
 
 export const twoMeans: Design<TwoMeansInput, TwoMeansResult> = {
   id: "two-means",
-  version: 3,
+  version: 4,
   stage: "comparative",
   title: "Two means (parallel groups)",
   summary: "Sample size or power for comparing a continuous outcome between two arms: superiority, non-inferiority or equivalence, by the exact t method or the normal approximation.",

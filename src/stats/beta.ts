@@ -6,16 +6,10 @@
  * (Press et al., Numerical Recipes, 3rd ed., section 6.4; DiDonato & Morris 1992,
  * ACM TOMS 18:360-373 for the choice of side).
  */
-import { logGamma } from "./gamma.js";
+import { logGamma, stirlingRemainder } from "./gamma.js";
 
 const EPS = 1e-16;
 const TINY = 1e-300;
-
-/** Stirling series remainder: log Γ(x) - [(x - 1/2) log x - x + log √(2π)], for x ≥ 15 (first omitted term below 3e-14). */
-function stirlingRemainder(x: number): number {
-  const x2 = x * x;
-  return (1 / 12 - (1 / 360 - (1 / 1260 - 1 / (1680 * x2)) / x2) / x2) / x;
-}
 
 /**
  * log B(a, b). When the larger shape is big, log Γ(a) - log Γ(a + b) is formed

@@ -12,7 +12,7 @@ const LANCZOS = [
   -176.61502916214059, 12.507343278686905, -0.13857109526572012, 9.9843695780195716e-6,
   1.5056327351493116e-7,
 ];
-const LOG_SQRT_2PI = 0.91893853320467274178;
+export const LOG_SQRT_2PI = 0.91893853320467274178;
 
 /** log Γ(x) for x > 0. */
 export function logGamma(x: number): number {
@@ -25,6 +25,17 @@ export function logGamma(x: number): number {
   for (let i = 1; i < 9; i++) sum += LANCZOS[i]! / (z + i);
   const t = z + 7.5;
   return LOG_SQRT_2PI + (z + 0.5) * Math.log(t) - t + Math.log(sum);
+}
+
+/**
+ * The Stirling series remainder log Γ(x) − [(x − 1/2) log x − x + log √(2π)]:
+ * from the series for x ≥ 15 (first omitted term below 3e-14), where subtracting
+ * the large terms from log Γ would lose digits; directly below 15.
+ */
+export function stirlingRemainder(x: number): number {
+  if (x < 15) return logGamma(x) - ((x - 0.5) * Math.log(x) - x + LOG_SQRT_2PI);
+  const x2 = x * x;
+  return (1 / 12 - (1 / 360 - (1 / 1260 - 1 / (1680 * x2)) / x2) / x2) / x;
 }
 
 const EPS = 1e-16;
