@@ -4,6 +4,10 @@ export interface Env {
   CALCULATIONS: KVNamespace;
   /** One Durable Object per calculation id, deciding which record the id stands for (src/store/ledger.ts). */
   LEDGER?: DurableObjectNamespace;
+  /** Counts computing requests per client address (src/api/rateLimit.ts); used only when RATE_LIMIT is "on". */
+  COMPUTE_RATE_LIMITER?: RateLimit;
+  /** "on" to apply the rate limit; "off" (the default, for local development and tests). */
+  RATE_LIMIT?: string;
   /** The form pages under static/, served by Workers Static Assets. */
   ASSETS?: Fetcher;
 }
