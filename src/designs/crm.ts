@@ -38,7 +38,8 @@ import {
   observedCounts, observedDataField, operatingCharacteristicsSection, scheduleFacts, simulatePlan, simulationFields, simulationProtocolText, treatCohort, useField,
 } from "./shared/doseFinding.js";
 import { LEE_CHEUNG_2009, OQUIGLEY_PEPE_FISHER_1990 } from "./shared/doseFindingReferences.js";
-import { type CrmModel, calibrateSkeleton, doseConstants, doseProbability, logisticCeiling } from "./shared/crmModel.js";
+import { type CrmModel, calibrateSkeleton, doseConstants, doseProbability } from "./shared/crmModel.js";
+import { checkCrmSkeleton } from "./shared/crmSkeletonChecks.js";
 import { CrmFastPosterior, type CrmPosteriorSummary, crmPosterior } from "./shared/crmPosterior.js";
 import { designSection, protocolSection } from "./shared/reportSections.js";
 
@@ -61,7 +62,7 @@ const schema = z
     priorVariance: z.number().gt(0.01).max(10).default(1.34)
       .describe("Variance of the normal prior on the model parameter a (mean 0); 1.34 is the usual choice."),
     skeleton: z.array(z.number().gt(0, "Must be above 0.").lt(1, "Must be below 1.")).min(2).max(MAX_DOSES).optional()
-      .describe("Prior guesses of the DLT probability at each dose, increasing. Leave out to calibrate it from the target, the half-width and the prior MTD (Lee & Cheung 2009)."),
+      .describe("Prior guesses of the DLT probability at each dose, increasing, each at most 0.999 (with the logistic model, 0.999 of its highest rate 1/(1 + e^-a0)). Leave out to calibrate it from the target, the half-width and the prior MTD (Lee & Cheung 2009)."),
     skeletonHalfWidth: z.number().min(0.01).max(0.25).default(0.05)
       .describe("Half-width δ of the indifference interval target ± δ used to calibrate the skeleton (Lee & Cheung 2009)."),
     priorMtd: z.number().int().min(1).max(MAX_DOSES).optional()
@@ -77,19 +78,10 @@ const schema = z
     const issue = issueReporter(ctx);
     checkDoseFindingInput(v, issue);
     const k = v.doses.length;
-    const ceiling = v.model === "logistic" ? logisticCeiling(v.logisticIntercept) : 1;
-    if (v.model === "logistic" && v.target >= ceiling) issue(["target"], `With intercept ${v.logisticIntercept} the logistic model cannot reach a DLT rate of ${ceiling.toFixed(4)} or more; lower the target or raise the intercept.`);
-    if (v.skeleton) {
-      if (v.skeleton.length !== k) issue(["skeleton"], `Give one skeleton value per dose: ${k} doses but ${v.skeleton.length} values.`);
-      v.skeleton.forEach((s, i) => {
-        if (i > 0 && s <= v.skeleton![i - 1]!) issue(["skeleton", i], `The skeleton must increase with dose: ${s} at dose ${i + 1} is not above ${v.skeleton![i - 1]} at dose ${i}.`);
-        if (s >= ceiling) issue(["skeleton", i], `With intercept ${v.logisticIntercept} the logistic model needs every skeleton value below ${ceiling.toFixed(4)}.`);
-      });
-    } else {
-      if (v.priorMtd !== undefined && v.priorMtd > k) issue(["priorMtd"], `The prior MTD must be one of the ${k} doses.`);
-      if (v.skeletonHalfWidth >= v.target) issue(["skeletonHalfWidth"], `The half-width (${v.skeletonHalfWidth}) must be below the target (${v.target}).`);
-      if (v.target + v.skeletonHalfWidth >= ceiling) issue(["skeletonHalfWidth"], `Target plus half-width (${v.target + v.skeletonHalfWidth}) must be below ${v.model === "logistic" ? ceiling.toFixed(4) : 1}.`);
-    }
+    checkCrmSkeleton(
+      { model: v.model, intercept: v.logisticIntercept, target: v.target, skeleton: v.skeleton, halfWidth: v.skeletonHalfWidth, priorMtd: v.priorMtd },
+      k, issue, { target: "target", skeleton: "skeleton", halfWidth: "skeletonHalfWidth", priorMtd: "priorMtd" },
+    );
     checkUseInputs(v, k, issue, "recommendation");
   })
   .transform((v) => ({ ...v, priorMtd: v.priorMtd ?? Math.ceil(v.doses.length / 2) }));
@@ -320,7 +312,8 @@ function protocolText(input: CrmInput, r: CrmResult): string {
 
 export const crm: Design<CrmInput, CrmResult> = {
   id: "crm",
-  version: 1,
+  // 2: the simulations' quadrature panels are no wider than the logistic model's poles are far from the real axis, which moves results for a logistic intercept above 3.05.
+  version: 2,
   stage: "dose-finding",
   title: "CRM (continual reassessment method) dose finding",
   summary: "The continual reassessment method with a power or one-parameter logistic model: the next dose with posterior DLT estimates and credible intervals from the data so far, or simulated operating characteristics under scenarios; skeleton given or calibrated.",

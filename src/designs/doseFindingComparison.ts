@@ -25,7 +25,7 @@ import type { Block, Cell, Section } from "../report/document.js";
 import { threePlusThreeOperatingCharacteristics } from "./threePlusThree.js";
 import { type CrmInput, CRM_WORK_LIMIT, crmModelOf, crmTrialRunner } from "./crm.js";
 import { type BoinInput, BOIN_WORK_LIMIT, boinBoundaries, boinTrialRunner } from "./boin.js";
-import { logisticCeiling } from "./shared/crmModel.js";
+import { checkCrmSkeleton } from "./shared/crmSkeletonChecks.js";
 import {
   MAX_DOSES, type OperatingCharacteristics, assertSimulationBudget, checkDoseFindingInput, checkScenarios, doseFindingFields,
   issueReporter, overdosingShares, scenarioSchema, scenarioSeed, selectionChart, simulateScenario, simulationFields, summaryCells, summaryColumns, trueMtd,
@@ -35,6 +35,9 @@ import { protocolSection } from "./shared/reportSections.js";
 
 const { scenarios: _unused, ...simulationControls } = simulationFields;
 
+/** The logistic CRM's fixed intercept here (the usual convention). */
+const COMPARISON_LOGISTIC_INTERCEPT = 3;
+
 const schema = z
   .strictObject({
     ...doseFindingFields,
@@ -43,7 +46,7 @@ const schema = z
       .describe("3+3: after 2 or more DLTs at a dose, the MTD is the next lower dose (next-lower-dose), or the next lower dose once it has 6 patients with at most 1 DLT (next-lower-dose-with-six)."),
     crmModel: z.enum(["power", "logistic"]).default("power").describe("CRM dose-toxicity model: power (empiric) or one-parameter logistic with intercept 3."),
     crmSkeleton: z.array(z.number().gt(0).lt(1)).min(2).max(MAX_DOSES).optional()
-      .describe("CRM skeleton (prior guesses of the DLT probability per dose, increasing); leave out to calibrate it (Lee & Cheung 2009)."),
+      .describe("CRM skeleton (prior guesses of the DLT probability per dose, increasing, each at most 0.999, or 0.999 of 0.9526 with the logistic model); leave out to calibrate it (Lee & Cheung 2009)."),
     crmSkeletonHalfWidth: z.number().min(0.01).max(0.25).default(0.05).describe("Half-width of the indifference interval for calibrating the CRM skeleton."),
     crmPriorMtd: z.number().int().min(1).max(MAX_DOSES).optional().describe("Prior MTD for calibrating the CRM skeleton, numbered from 1 (default: the middle dose)."),
     crmPriorVariance: z.number().gt(0.01).max(10).default(1.34).describe("Variance of the CRM's normal prior on its parameter."),
@@ -57,19 +60,10 @@ const schema = z
     const k = v.doses.length;
     checkScenarios([v.scenario], k, (path, message) => issue(["scenario", ...path.slice(2)], message));
     if (1.4 * v.target >= 1) issue(["target"], "BOIN's overdosing limit 1.4 × target must be below 1: use a target below 0.714.");
-    const ceiling = v.crmModel === "logistic" ? logisticCeiling(3) : 1;
-    if (v.crmModel === "logistic" && v.target >= ceiling) issue(["target"], `The logistic CRM with intercept 3 cannot reach a DLT rate of ${ceiling.toFixed(4)}; lower the target.`);
-    if (v.crmSkeleton) {
-      if (v.crmSkeleton.length !== k) issue(["crmSkeleton"], `Give one skeleton value per dose: ${k} doses but ${v.crmSkeleton.length} values.`);
-      v.crmSkeleton.forEach((s, i) => {
-        if (i > 0 && s <= v.crmSkeleton![i - 1]!) issue(["crmSkeleton", i], `The skeleton must increase with dose: ${s} at dose ${i + 1} is not above ${v.crmSkeleton![i - 1]}.`);
-        if (s >= ceiling) issue(["crmSkeleton", i], `The logistic model with intercept 3 needs every skeleton value below ${ceiling.toFixed(4)}.`);
-      });
-    } else {
-      if (v.crmPriorMtd !== undefined && v.crmPriorMtd > k) issue(["crmPriorMtd"], `The prior MTD must be one of the ${k} doses.`);
-      if (v.crmSkeletonHalfWidth >= v.target) issue(["crmSkeletonHalfWidth"], `The half-width (${v.crmSkeletonHalfWidth}) must be below the target (${v.target}).`);
-      if (v.target + v.crmSkeletonHalfWidth >= ceiling) issue(["crmSkeletonHalfWidth"], `Target plus half-width must be below ${v.crmModel === "logistic" ? ceiling.toFixed(4) : 1}.`);
-    }
+    checkCrmSkeleton(
+      { model: v.crmModel, intercept: COMPARISON_LOGISTIC_INTERCEPT, target: v.target, skeleton: v.crmSkeleton, halfWidth: v.crmSkeletonHalfWidth, priorMtd: v.crmPriorMtd },
+      k, issue, { target: "target", skeleton: "crmSkeleton", halfWidth: "crmSkeletonHalfWidth", priorMtd: "crmPriorMtd" },
+    );
   })
   .transform((v) => ({ ...v, crmPriorMtd: v.crmPriorMtd ?? Math.ceil(v.doses.length / 2) }));
 
@@ -92,7 +86,7 @@ export interface DoseFindingComparisonResult {
 function crmInputOf(v: DoseFindingComparisonInput): CrmInput {
   return {
     use: "plan", doses: v.doses, target: v.target, cohortSize: v.cohortSize, startDose: v.startDose, maxSampleSize: v.maxSampleSize,
-    model: v.crmModel, logisticIntercept: 3, priorVariance: v.crmPriorVariance, skeleton: v.crmSkeleton, skeletonHalfWidth: v.crmSkeletonHalfWidth,
+    model: v.crmModel, logisticIntercept: COMPARISON_LOGISTIC_INTERCEPT, priorVariance: v.crmPriorVariance, skeleton: v.crmSkeleton, skeletonHalfWidth: v.crmSkeletonHalfWidth,
     priorMtd: v.crmPriorMtd, doseEstimate: "posterior-mean", safetyThreshold: v.crmSafetyThreshold,
     scenarios: [v.scenario], trials: v.trials, seed: v.seed, data: undefined,
   };

@@ -207,8 +207,19 @@ const GRID_LIMIT = 24;
 /** From 0.0125 (posteriors of a thousand patients or a tight prior) to 0.8; each level is tabulated only when first needed. */
 const FINEST_PANEL = 0.0125;
 const LEVELS = 7;
-/** Widest panel: the logistic model's poles lie 0.81 from the real axis. */
+/** Widest panel of either model. */
 const MAX_PANEL = 0.8;
+
+/**
+ * Widest panel for a model: the logistic model's p_i(a) has poles where
+ * a0 + e^a x_i = ±iπ, atan(π/a0) from the real axis whatever x_i (0.81 at
+ * a0 = 3, 0.30 at a0 = 10), and a Gauss-Legendre panel no wider than that
+ * distance keeps the 8-node rule within 1e-9 of the adaptive reference. The
+ * power model's integrand is entire.
+ */
+export function widestPanel(model: Pick<CrmModel, "kind" | "intercept">): number {
+  return model.kind === "logistic" ? Math.min(MAX_PANEL, Math.atan(Math.PI / model.intercept)) : MAX_PANEL;
+}
 /** Scale units around the mode that keep the finest panels. */
 const INNER_REACH = 6;
 /** Gauss-Legendre nodes per panel of the fast rule. */
@@ -230,10 +241,9 @@ interface GridLevel {
  * Posterior means and P(p_1 > target) by a fixed composite Gauss-Legendre rule
  * on a grid of panels whose model probabilities are tabulated once, so that an
  * update costs one exponential per node. The panel width is the largest grid
- * width not above the posterior's curvature scale (and not above 0.8, since
- * the logistic model's p_i(a) has poles 0.81 from the real axis when a0 = 3:
- * a0 + e^a x_i = ±iπ); the panels cover the window where the log posterior is
- * within 36 of its maximum. The tests check agreement with the adaptive
+ * width not above the posterior's curvature scale nor the model's widest panel
+ * (widestPanel: 0.8, less for a logistic intercept above 3.05); the panels
+ * cover the window where the log posterior is within 36 of its maximum. The tests check agreement with the adaptive
  * reference to 1e-9.
  */
 export class CrmFastPosterior {
@@ -244,6 +254,7 @@ export class CrmFastPosterior {
   private readonly model: CrmModel;
   private readonly doseCount: number;
   private readonly safetyParameter: number;
+  private readonly maxPanel: number;
   private readonly levels: Array<GridLevel | undefined> = [];
   /** Per tried dose: non-DLTs, DLTs and table offset (scratch for update). */
   private readonly patients: Float64Array;
@@ -266,6 +277,7 @@ export class CrmFastPosterior {
     this.dlts = new Float64Array(this.doseCount);
     this.offsets = new Int32Array(this.doseCount);
     this.safetyParameter = parameterForProbability(model.kind, this.lp.constants[0]!, model.intercept, target);
+    this.maxPanel = widestPanel(model);
   }
 
   /** Forgets the warm start (call at the start of each simulated trial). */
@@ -330,12 +342,12 @@ export class CrmFastPosterior {
     const lo = Math.max(-GRID_LIMIT, mode - lp.reach(mode, peak, scale, -1, 36) * scale);
     const hi = Math.min(GRID_LIMIT, mode + lp.reach(mode, peak, scale, 1, 36) * scale);
     let fineIndex = 0;
-    while (fineIndex + 1 < LEVELS && FINEST_PANEL * 2 ** (fineIndex + 1) <= Math.min(scale, MAX_PANEL)) fineIndex++;
+    while (fineIndex + 1 < LEVELS && FINEST_PANEL * 2 ** (fineIndex + 1) <= Math.min(scale, this.maxPanel)) fineIndex++;
     // Beyond INNER_REACH scale units of the mode the density is small and, where a
     // long prior-dominated tail remains, smooth on a longer scale: panels up to
-    // four times wider there (never above MAX_PANEL).
+    // four times wider there (never above the model's widest panel).
     let coarseIndex = fineIndex;
-    while (coarseIndex + 1 < LEVELS && coarseIndex < fineIndex + 2 && FINEST_PANEL * 2 ** (coarseIndex + 1) <= MAX_PANEL) coarseIndex++;
+    while (coarseIndex + 1 < LEVELS && coarseIndex < fineIndex + 2 && FINEST_PANEL * 2 ** (coarseIndex + 1) <= this.maxPanel) coarseIndex++;
     const fine = this.level(fineIndex);
     const coarse = this.level(coarseIndex);
     const ratio = 2 ** (coarseIndex - fineIndex);

@@ -8,7 +8,7 @@ import { expectClose, loadFixture } from "../../support/fixtures.js";
 import { CRM_WORK_LIMIT, computeCrm, crm } from "../../../src/designs/crm.js";
 import { InfeasibleDesignError } from "../../../src/designs/design.js";
 import { calibrateSkeleton, type CrmModelKind } from "../../../src/designs/shared/crmModel.js";
-import { CrmFastPosterior, crmPosterior } from "../../../src/designs/shared/crmPosterior.js";
+import { CrmFastPosterior, crmPosterior, widestPanel } from "../../../src/designs/shared/crmPosterior.js";
 import { createRandom } from "../../../src/stats/random.js";
 import { canonicalJson } from "../../../src/store/canonical.js";
 
@@ -122,6 +122,35 @@ describe("CRM fast posterior with much data or a tight prior", () => {
   });
 });
 
+describe("CRM fast posterior with a logistic intercept above 3", () => {
+  it("agrees with the adaptive reference to 1e-9 at intercept 10 (regression: panels of 0.8 against poles 0.30 from the real axis were 2.4e-5 off)", () => {
+    // The poles of p_i(a) lie atan(π/a0) from the real axis (a0 + e^a x_i = ±iπ): 0.30 at a0 = 10.
+    for (const priorVariance of [1.34, 4]) {
+      const random = createRandom(31);
+      const model = { kind: "logistic" as const, skeleton: calibrateSkeleton("logistic", 0.25, 0.05, 2, 5, 10), intercept: 10, priorVariance };
+      const fast = new CrmFastPosterior(model, 0.25);
+      for (let t = 0; t < 200; t++) {
+        const most = [150, 30, 10][t % 3]!;
+        const n = Array.from({ length: 5 }, () => (random.uniform() < 0.6 ? random.integer(most) : 0));
+        const y = n.map((m) => random.integer(m + 1));
+        if (t % 7 === 0) y.fill(0);
+        if (t % 11 === 0) n.forEach((m, i) => { y[i] = m; });
+        const ref = crmPosterior(model, n, y, 0.25);
+        fast.update(n, y);
+        for (let i = 0; i < 5; i++) expectClose(fast.meanProbability[i]!, ref.meanProbability[i]!, 1e-9, { priorVariance, n, y, dose: i + 1 });
+        expectClose(fast.probabilityLowestAboveTarget, ref.probabilityLowestAboveTarget, 1e-9, { priorVariance, n, y, what: "P(p1 > target)" });
+      }
+    }
+  }, 30_000);
+
+  it("keeps panels of 0.8 up to intercept 3.05 and narrows them above", () => {
+    expect(widestPanel({ kind: "power", intercept: 3 })).toBe(0.8);
+    expect(widestPanel({ kind: "logistic", intercept: 3 })).toBe(0.8);
+    // atan(π/10) = 0.3043958, the poles' distance from the real axis at a0 = 10 (Python's math.atan).
+    expect(widestPanel({ kind: "logistic", intercept: 10 })).toBeCloseTo(0.3043958, 6);
+  });
+});
+
 describe("CRM simulation", () => {
   it("agrees with exact enumeration of small trials computed in R (within 4.5 Monte Carlo standard errors)", () => {
     const f = loadFixture<{ name: string; model: CrmModelKind; skeleton: number[]; target: number; dltProbabilities: number[]; cohortSize: number; maxSampleSize: number;
@@ -189,6 +218,21 @@ describe("CRM input validation (400 with the field path)", () => {
     expect(pathsOf({ doses, use: "next-dose", data })).toContain("data.1.dlts");
     expect(pathsOf({ doses, scenarios: [{ name: "s", dltProbabilities: [0.1, 0.3, 0.2, 0.4, 0.5] }] })).toContain("scenarios.0.dltProbabilities.2");
     expect(pathsOf({ doses })).toContain("scenarios");
+  });
+  it("refuses skeleton values within 0.001 of the model's ceiling (regression: a skeleton value of 1 - 1e-12 gave NaN posterior means in simulations)", () => {
+    expect(pathsOf({ ...base, skeleton: [0.05, 0.1, 0.2, 0.3, 1 - 1e-12] })).toContain("skeleton.4");
+    // The logistic ceiling with intercept 3 is 1/(1 + e^-3) = 0.952574; 0.999 of it is 0.951622.
+    expect(pathsOf({ ...base, model: "logistic", skeleton: [0.05, 0.1, 0.2, 0.3, 0.9517] })).toContain("skeleton.4");
+    expect(crm.input.safeParse({ ...base, skeleton: [0.05, 0.1, 0.2, 0.3, 0.999] }).success).toBe(true);
+    expect(crm.input.safeParse({ ...base, model: "logistic", skeleton: [0.05, 0.1, 0.2, 0.3, 0.9516] }).success).toBe(true);
+  });
+  it("refuses a calibrated skeleton that underflows to 0 or climbs to the ceiling (regression: it gave -Infinity logistic dose labels)", () => {
+    const tenDoses = Array.from({ length: 10 }, (_, i) => `d${i + 1}`);
+    const scenarios = [{ name: "s", dltProbabilities: tenDoses.map((_, i) => 0.05 + 0.05 * i) }];
+    // δ = 0.25 around 0.3 with intercept 0.5: each dose below the prior MTD divides x by about 0.09, so dose 1 underflows.
+    expect(pathsOf({ doses: tenDoses, scenarios, model: "logistic", logisticIntercept: 0.5, target: 0.3, skeletonHalfWidth: 0.25, priorMtd: 10 })).toContain("skeletonHalfWidth");
+    expect(pathsOf({ doses: tenDoses, scenarios, target: 0.5, skeletonHalfWidth: 0.45, priorMtd: 1 })).toContain("skeletonHalfWidth");
+    expect(crm.input.safeParse({ doses: tenDoses, scenarios, target: 0.25, skeletonHalfWidth: 0.05, priorMtd: 5 }).success).toBe(true);
   });
   it("accepts its own example", () => {
     expect(crm.input.safeParse(crm.example).success).toBe(true);

@@ -56,6 +56,8 @@ describe("dose-finding comparison", () => {
     expect(bad({ scenario: { name: "s", dltProbabilities: [0.1, 0.3] } })).toContain("scenario.dltProbabilities");
     expect(bad({ target: 1.5 })).toContain("target");
     expect(bad({ crmSkeleton: [0.1, 0.2] })).toContain("crmSkeleton");
+    expect(bad({ crmSkeleton: [0.1, 0.2, 0.3, 0.4, 0.9995] })).toContain("crmSkeleton.4");
+    expect(bad({ doses: Array.from({ length: 10 }, (_, i) => `d${i + 1}`), scenario: { name: "s", dltProbabilities: Array.from({ length: 10 }, () => 0.1) }, target: 0.5, crmSkeletonHalfWidth: 0.25, crmPriorMtd: 1 })).toContain("crmSkeletonHalfWidth");
     const big = doseFindingComparison.input.parse({ ...doseFindingComparison.example, cohortSize: 1, maxSampleSize: 150, trials: 20000 });
     expect(() => computeDoseFindingComparison(big)).toThrow(InfeasibleDesignError);
   });
