@@ -83,15 +83,13 @@ export interface SimonTwoStageResult {
   atRequestedRates: TwoStagePoint[];
 }
 
-/** Doubles maxN until a design appears, to tell the user how far the search must go. */
+/**
+ * After a search up to maxN found nothing, the smallest total that has a
+ * design (the minimax n of a search up to SIMON_MAX_N), to tell the user how
+ * far the search must go; the totals already searched are not searched again.
+ */
 function smallestWorkingMaxN(input: SimonTwoStageInput): number | null {
-  let bound = input.maxN;
-  while (bound < SIMON_MAX_N) {
-    bound = Math.min(SIMON_MAX_N, bound * 2);
-    const found = searchSimon({ ...input, maxN: bound });
-    if (found) return found.minimax.n;
-  }
-  return null;
+  return searchSimon({ ...input, maxN: SIMON_MAX_N }, input.maxN + 1)?.minimax.n ?? null;
 }
 
 export function computeSimonTwoStage(input: SimonTwoStageInput): SimonTwoStageResult {

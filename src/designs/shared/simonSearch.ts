@@ -58,12 +58,20 @@ export interface SimonSearchResult {
 
 const SLACK = 1e-12;
 
-/** The optimal, minimax and admissible designs; null when no design up to maxN meets the targets. */
-export function searchSimon(t: SimonTargets): SimonSearchResult | null {
+/**
+ * The optimal, minimax and admissible designs; null when no design up to maxN meets the targets.
+ *
+ * `smallestN` skips totals below it, for a caller that already knows no
+ * design with a smaller total meets the targets (a search up to smallestN - 1
+ * came back empty): every skipped total would have stayed empty and bounded
+ * nothing, so the designs found are those of the full search, without
+ * repeating its work.
+ */
+export function searchSimon(t: SimonTargets, smallestN = 1): SimonSearchResult | null {
   const { p0, p1, maxN } = t;
   const alphaLimit = t.alpha + SLACK;
   const powerLimit = t.power - SLACK;
-  if (mostPowerfulTestPower(maxN, p0, p1, alphaLimit) < powerLimit) return null;
+  if (smallestN > maxN || mostPowerfulTestPower(maxN, p0, p1, alphaLimit) < powerLimit) return null;
   const tails0: Float64Array[] = [];
   const tails1: Float64Array[] = [];
   for (let m = 0; m < maxN; m++) {
@@ -84,29 +92,20 @@ export function searchSimon(t: SimonTargets): SimonSearchResult | null {
       // Power never exceeds the chance of passing stage 1.
       if (stage1Tail1[r1 + 1]! < powerLimit) break;
       const continue0 = stage1Tail0[r1 + 1]!;
+      const firstN = Math.max(n1 + 1, smallestN);
       let bound = Infinity;
-      for (let n = 1; n <= n1; n++) bound = Math.min(bound, bestEN[n]!);
+      for (let n = 1; n < firstN; n++) bound = Math.min(bound, bestEN[n]!);
       let r = r1;
-      for (let n = n1 + 1; n <= maxN; n++) {
+      for (let n = firstN; n <= maxN; n++) {
         bound = Math.min(bound, bestEN[n]!);
         const en0 = n1 + continue0 * (n - n1);
         if (en0 >= bound) break;
         const n2 = n - n1;
         const second0 = tails0[n2]!;
-        // Promise under p0 at r: all with X1 > r, plus X1 in (r1, r] needing r + 1 - X1 more.
-        for (;;) {
-          let a = r + 1 <= n1 ? stage1Tail0[r + 1]! : 0;
-          const from = Math.max(r1 + 1, r + 1 - n2);
-          const to = Math.min(n1, r);
-          for (let x = from; x <= to; x++) a += pmf0[x]! * second0[r + 1 - x]!;
-          if (a <= alphaLimit) break;
-          r++;
-        }
-        const second1 = tails1[n2]!;
-        let pw = r + 1 <= n1 ? stage1Tail1[r + 1]! : 0;
-        const from = Math.max(r1 + 1, r + 1 - n2);
-        const to = Math.min(n1, r);
-        for (let x = from; x <= to; x++) pw += pmf1[x]! * second1[r + 1 - x]!;
+        // Entering at a total above n1 + 1 there is no count from the last total to walk up from.
+        if (n === firstN && n > n1 + 1) r = smallestCountWithinAlpha(pmf0, stage1Tail0, second0, r1, n1, n2, alphaLimit);
+        while (promiseProbability(pmf0, stage1Tail0, second0, r1, n1, n2, r) > alphaLimit) r++;
+        const pw = promiseProbability(pmf1, stage1Tail1, tails1[n2]!, r1, n1, n2, r);
         if (pw < powerLimit) continue;
         bestEN[n] = en0;
         bound = en0;
@@ -129,6 +128,30 @@ export function searchSimon(t: SimonTargets): SimonSearchResult | null {
   const minimax = records[0]!;
   const optimal = records[records.length - 1]!;
   return { optimal, minimax, admissible: admissibleDesigns(records, optimal) };
+}
+
+/**
+ * P(declare promise) of the rule (r1/n1, then r/n1 + n2) from the stage-1
+ * distribution and the stage-2 upper tails: every X1 > r, plus X1 in (r1, r]
+ * followed by at least r + 1 - X1 more.
+ */
+function promiseProbability(stage1Pmf: Float64Array, stage1Tail: Float64Array, stage2Tail: Float64Array, r1: number, n1: number, n2: number, r: number): number {
+  let total = r + 1 <= n1 ? stage1Tail[r + 1]! : 0;
+  const from = Math.max(r1 + 1, r + 1 - n2);
+  const to = Math.min(n1, r);
+  for (let x = from; x <= to; x++) total += stage1Pmf[x]! * stage2Tail[r + 1 - x]!;
+  return total;
+}
+
+/** The smallest final count r in [r1, n1 + n2] keeping alpha, by bisection: promise falls as r rises, and is 0 at r = n1 + n2. */
+function smallestCountWithinAlpha(pmf0: Float64Array, stage1Tail0: Float64Array, stage2Tail0: Float64Array, r1: number, n1: number, n2: number, alphaLimit: number): number {
+  let lo = r1;
+  let hi = n1 + n2;
+  while (lo < hi) {
+    const mid = (lo + hi) >> 1;
+    if (promiseProbability(pmf0, stage1Tail0, stage2Tail0, r1, n1, n2, mid) <= alphaLimit) hi = mid; else lo = mid + 1;
+  }
+  return lo;
 }
 
 /**

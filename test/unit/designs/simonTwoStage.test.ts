@@ -192,6 +192,20 @@ describe("bad and infeasible input", () => {
     expect(infeasibleDetails({ p0: 0.1, p1: 0.3, alpha: 0.05, power: 0.8, maxN: 20 })).toMatchObject({ field: "maxN", bound: 20, smallestMaxN: 25 });
   });
 
+  it("a maxN where a randomized test could reach the power but no two-stage rule does (24: the most powerful test needs 23) still names 25, searching only the larger totals again", () => {
+    expect(infeasibleDetails({ p0: 0.1, p1: 0.3, alpha: 0.05, power: 0.8, maxN: 24 })).toMatchObject({ field: "maxN", bound: 24, smallestMaxN: 25 });
+  });
+
+  it("a search that skips totals known to have no design finds exactly the designs of the full search", () => {
+    // No design below the minimax n = 25 (Simon 1989 table 1, from memory), so starting at 21 or 25 loses nothing.
+    const targets = { p0: 0.1, p1: 0.3, alpha: 0.05, power: 0.8, maxN: 60 };
+    const full = searchSimon(targets);
+    expect(full?.minimax.n).toBe(25);
+    expect(searchSimon(targets, 21)).toEqual(full);
+    expect(searchSimon(targets, 25)).toEqual(full);
+    expect(searchSimon(targets, 61)).toBeNull();
+  });
+
   it("when no maxN allowed works, says so without a smallest maxN", () => {
     const details = infeasibleDetails({ p0: 0.5, p1: 0.55, alpha: 0.01, power: 0.99, maxN: 100 });
     expect(details).toMatchObject({ field: "maxN", bound: 100 });
