@@ -1,7 +1,7 @@
 /**
  * Starts the Worker with `wrangler dev` on free local ports and a throwaway
- * persistence directory, the way a user runs it; used by the browser tests and
- * the screenshot script.
+ * persistence directory, the way a user runs it; used by the browser tests, the
+ * screenshot script and the load test.
  */
 import { type ChildProcess, spawn } from "node:child_process";
 import { mkdtempSync, rmSync } from "node:fs";
@@ -11,6 +11,8 @@ import { join } from "node:path";
 
 export interface RunningWorker {
   url: string;
+  /** Process group of `wrangler dev` and the runtime processes it starts (the load test reads their CPU time). */
+  processGroup: number;
   stop(): Promise<void>;
 }
 
@@ -92,5 +94,5 @@ export async function startWorker(root: string): Promise<RunningWorker> {
     await stop();
     throw error;
   }
-  return { url, stop };
+  return { url, processGroup: child.pid!, stop };
 }
