@@ -74,8 +74,8 @@ function emptyTally(): Tally {
   return { latencies: [], bytes: 0, seconds: 0, statusCounts: {}, non2xx: 0, errors: 0, timeouts: 0, unexpected: 0, unexpectedSamples: [], workerCpuMs: 0, generatorCpuMs: 0 };
 }
 
-/** Nearest-rank percentile of ascending values. */
-function percentile(sorted: number[], p: number): number {
+/** Nearest-rank percentile of ascending values (Hyndman & Fan 1996, definition 1): the smallest value with at least p% at or below it. */
+export function percentile(sorted: number[], p: number): number {
   if (sorted.length === 0) return Number.NaN;
   return sorted[Math.min(sorted.length - 1, Math.max(0, Math.ceil((p / 100) * sorted.length) - 1))]!;
 }
