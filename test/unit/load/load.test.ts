@@ -89,7 +89,7 @@ describe("options", () => {
     expect(options.amount).toBe(300);
     expect(options.durationSeconds).toBe(7);
     const full = parseOptions([], {});
-    if (full === "help" || options === "help") throw new Error("not help");
+    if (full === "help") throw new Error("not help");
     expect(options.connections).toBe(full.connections);
     expect(options.freshAmount).toBeLessThan(full.freshAmount);
   });
