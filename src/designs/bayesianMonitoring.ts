@@ -38,7 +38,7 @@
  *   outcomes of all patients up to a check are known when it is made.
  */
 import { z } from "zod";
-import { type Design, InfeasibleDesignError } from "./design.js";
+import { type Design, InfeasibleDesignError, type WorkEstimate } from "./design.js";
 import type { Cell, Section } from "../report/document.js";
 import { betaSurvival } from "../stats/beta.js";
 import { type CheckRegion, sequentialBinomial } from "../stats/sequentialBinomial.js";
@@ -46,7 +46,7 @@ import {
   type BoundaryCheck, type BoundaryRun, type PosteriorRule, type PredictiveRule, checkSchedule, finalSuccessCount,
   futilityBoundary, posteriorBeyond, posteriorBoundary, predictiveTable, runsOf,
 } from "./shared/bayesianRules.js";
-import { type ThresholdSearch, searchThresholds } from "./shared/predictiveSearch.js";
+import { type ThresholdSearch, searchThresholds, thresholdSearchWork } from "./shared/predictiveSearch.js";
 import { designSection, protocolSection } from "./shared/reportSections.js";
 
 export const MAX_PATIENTS = 300;
@@ -258,6 +258,52 @@ function predictiveThresholds(input: BayesianMonitoringInput, checks: number[]):
     );
   }
   return { efficacyThreshold: search.chosen.efficacyThreshold, futilityThreshold: search.chosen.futilityThreshold, search };
+}
+
+/**
+ * The compute budget (budget.ts). The work is in exact recursions over the
+ * patients (sequentialBinomial: one per tabulated or charted rate, two per
+ * threshold pair of a search), each at most maxN(maxN + 3)/2 steps; tables of
+ * predictive probabilities (the same number of steps); and posterior tail
+ * probabilities for the boundaries and final counts. With maxN ≤ 300 and at
+ * most 30 rates the heaviest input stays far inside the budget, so no input
+ * is refused.
+ *
+ * Constants from `npm run bench designs` (the bayesian-monitoring heaviest
+ * cases, median CPU over 3 runs while other work shared the machine): the
+ * threshold search over 300 patients checked one by one counts 46.9 million
+ * steps and took 79 ms, the posterior rule 5.9 million in 16 ms, 1.7 to
+ * 2.6 ns a step; a posterior tail probability alone took 0.3 to 1.4 µs.
+ * 2.7 ns and 2 µs are taken, and the safety factor covers slower runs.
+ */
+const MS_PER_STEP = 2.7e-6;
+const MS_PER_POSTERIOR_PROBABILITY = 0.002;
+const FIXED_MS = 3;
+const SAFETY = 1.5;
+
+export function costBayesianMonitoring(input: BayesianMonitoringInput): WorkEstimate {
+  const maxN = input.maxN;
+  const rates = CURVE_RATES.length + rateGrid(input).length;
+  let recursions = rates;
+  let tables = 0;
+  // The boundary scan and the feasibility checks (bisections up to SEARCH_LIMIT patients).
+  let posteriorProbabilities = 2 * (maxN + 1) + 40;
+  if (input.rule === "predictive") {
+    tables += 1;
+    if (input.thresholds === "search") {
+      const search = thresholdSearchWork(maxN);
+      recursions += search.recursions;
+      tables += search.tables;
+      posteriorProbabilities += search.posteriorProbabilities;
+    }
+  }
+  const steps = (recursions + tables) * (maxN * (maxN + 3)) / 2;
+  return {
+    milliseconds: SAFETY * (FIXED_MS + steps * MS_PER_STEP + posteriorProbabilities * MS_PER_POSTERIOR_PROBABILITY),
+    breakdown: `${recursions + tables} exact recursions over up to ${maxN} patients (${rates} true rates` +
+      (input.thresholds === "search" ? `, ${thresholdSearchWork(maxN).recursions / 2} threshold pairs at p0 and p1` : "") + ")",
+    reduce: ["maxN", "trueRates"],
+  };
 }
 
 export function computeBayesianMonitoring(input: BayesianMonitoringInput): BayesianMonitoringResult {
@@ -546,6 +592,7 @@ export const bayesianMonitoring: Design<BayesianMonitoringInput, BayesianMonitor
     firstCheck: 1,
   },
   compute: computeBayesianMonitoring,
+  cost: costBayesianMonitoring,
   question: (input) => input.rule === "posterior"
     ? input.monitor === "response"
       ? `When should a single-arm trial of up to ${input.maxN} patients stop for futility because the response rate is probably below ${input.limit} (posterior probability above ${input.threshold}), and how often will it stop at each true response rate?`

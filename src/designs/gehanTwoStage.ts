@@ -18,7 +18,7 @@
  * n1 + n2 is the smallest integer meeting the target (within 1e-9 patients).
  */
 import { z } from "zod";
-import { type Design, InfeasibleDesignError } from "./design.js";
+import { type Design, InfeasibleDesignError, type WorkEstimate } from "./design.js";
 import type { Section } from "../report/document.js";
 import { betaQuantile } from "../stats/beta.js";
 import { binomialPmfArray } from "../stats/binomial.js";
@@ -72,6 +72,33 @@ export function rateForStandardError(input: GehanTwoStageInput, x1: number, n1: 
   if (input.rateForStandardError === "stage-one-proportion") return observed;
   const upper = x1 >= n1 ? 1 : betaQuantile(input.confidenceLevel, x1 + 1, n1 - x1);
   return Math.min(Math.max(0.5, observed), upper);
+}
+
+/**
+ * The compute budget (budget.ts): one row per possible number of stage-1
+ * responses, each with an exact upper confidence limit (a beta quantile, found
+ * iteratively) when that convention is chosen. The bounds of p1 and beta allow
+ * at most 688 rows, far inside the budget, so no input is refused.
+ *
+ * Constants from `npm run bench designs` (the gehan-two-stage heaviest case,
+ * 688 rows with a 0.9999 confidence level, median CPU over 3 runs while other
+ * work shared the machine): 16 ms, 23 µs a row (a beta quantile alone took 2
+ * to 11 µs); 30 µs is taken, and the safety factor covers slower runs.
+ */
+const MS_PER_QUANTILE_ROW = 0.03;
+const MS_PER_PLAIN_ROW = 0.001;
+const FIXED_MS = 2;
+const SAFETY = 1.5;
+
+export function costGehanTwoStage(input: GehanTwoStageInput): WorkEstimate {
+  const rows = gehanStageOneSize(input.p1, input.beta) ?? 0;
+  const quantiles = input.rateForStandardError === "upper-confidence-limit";
+  return {
+    milliseconds: SAFETY * (FIXED_MS + rows * (quantiles ? MS_PER_QUANTILE_ROW : MS_PER_PLAIN_ROW)),
+    breakdown: `${rows} stage-2 sizes, one per possible number of stage-1 responses${quantiles ? ", each from an exact upper confidence limit" : ""}`,
+    // Fewer rows need a higher p1 or a higher beta: no field falls to lower the work.
+    reduce: [],
+  };
 }
 
 export function computeGehanTwoStage(input: GehanTwoStageInput): GehanTwoStageResult {
@@ -163,6 +190,7 @@ export const gehanTwoStage: Design<GehanTwoStageInput, GehanTwoStageResult> = {
   input: schema,
   example: { p1: 0.2, beta: 0.05, targetSE: 0.1, rateForStandardError: "upper-confidence-limit", confidenceLevel: 0.75 },
   compute: computeGehanTwoStage,
+  cost: costGehanTwoStage,
   question: (input) => `How many patients are needed in stage 1 so that a drug with a response rate of ${input.p1} or more shows at least one response with probability ${1 - input.beta}, and how many more, by the number of stage-1 responses, to estimate the response rate with a standard error of at most ${input.targetSE}?`,
   document: documentGehan,
   references: [

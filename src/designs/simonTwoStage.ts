@@ -18,10 +18,10 @@
  * search covers every n up to maxN (see shared/simonSearch.ts).
  */
 import { z } from "zod";
-import { type Design, InfeasibleDesignError } from "./design.js";
+import { type Design, InfeasibleDesignError, type WorkEstimate } from "./design.js";
 import type { Block, Fact, Section } from "../report/document.js";
 import { checkResponseRates, responseRateFields } from "./shared/responseRates.js";
-import { type AdmissibleCandidate, searchSimon } from "./shared/simonSearch.js";
+import { type AdmissibleCandidate, searchCanSucceed, searchSimon, searchTermsBound, surelyFindsDesign } from "./shared/simonSearch.js";
 import {
   TWO_STAGE_MAX_N, type TwoStagePoint, type TwoStageRule, type TwoStageSummary, evaluateTwoStage, rateGrid, summarizeTwoStage,
 } from "./shared/twoStage.js";
@@ -90,6 +90,54 @@ export interface SimonTwoStageResult {
  */
 function smallestWorkingMaxN(input: SimonTwoStageInput): number | null {
   return searchSimon({ ...input, maxN: SIMON_MAX_N }, input.maxN + 1)?.minimax.n ?? null;
+}
+
+/**
+ * The compute budget (budget.ts). A search costs its binomial terms
+ * (searchTermsBound). An empty search up to maxN is followed by one over the
+ * larger totals, and the two together add no more than one search up to
+ * SIMON_MAX_N, so the count is of a search up to maxN when a design within
+ * maxN is certain (surelyFindsDesign), up to SIMON_MAX_N otherwise, and none
+ * when the most powerful test on SIMON_MAX_N patients cannot reach the power
+ * (both searches then stop before they start). An evaluation costs one
+ * binomial distribution of each stage per tabulated rate.
+ *
+ * Constants from `npm run bench designs` (the simon-two-stage heaviest cases,
+ * median CPU over 3 runs while other work shared the machine): the search up
+ * to 300 whose only design has 300 patients sums 0.045·300⁴ terms in 550 ms,
+ * 1.5 ns a term (an empty search up to 299 continued to 300, 0.048·300⁴
+ * terms, took 0.6 to 0.9 s); 1.8 ns is taken, and the safety factor covers
+ * slower runs. An evaluation at one rate took under 5 µs. The fixed part
+ * covers the summaries and curves.
+ */
+const SEARCH_MS_PER_TERM = 1.8e-6;
+const EVALUATION_MS_PER_RATE = 0.01;
+const FIXED_MS = 5;
+const SAFETY = 1.5;
+
+/** The largest total the searches of this input may visit: maxN, SIMON_MAX_N, or 0 when none runs. */
+function searchReach(input: SimonTwoStageInput): number {
+  if (!searchCanSucceed({ ...input, maxN: SIMON_MAX_N })) return 0;
+  return searchCanSucceed(input) && surelyFindsDesign(input) ? input.maxN : SIMON_MAX_N;
+}
+
+export function costSimonTwoStage(input: SimonTwoStageInput): WorkEstimate {
+  if (input.mode === "evaluate") {
+    // Both summary rates, the chart's grid and the requested rates.
+    const rates = 2 + rateGrid(input.p0, input.p1).length + input.trueRates.length;
+    return {
+      milliseconds: SAFETY * (FIXED_MS + rates * EVALUATION_MS_PER_RATE),
+      breakdown: `the given design evaluated at ${rates} response rates`,
+      reduce: ["trueRates"],
+    };
+  }
+  const reach = searchReach(input);
+  const terms = searchTermsBound(reach);
+  const breakdown = reach === 0
+    ? `no search: no rule on ${SIMON_MAX_N} patients can reach the power`
+    : `a search of every stage-1 size, stopping count and total up to ${reach} patients, at most ${Math.round(terms).toLocaleString("en-US")} binomial terms` +
+      (reach > input.maxN ? ` (up to ${SIMON_MAX_N} because no design within maxN = ${input.maxN} is certain, and the smallest maxN that works would be looked for)` : "");
+  return { milliseconds: SAFETY * (FIXED_MS + terms * SEARCH_MS_PER_TERM), breakdown, reduce: ["maxN"] };
 }
 
 export function computeSimonTwoStage(input: SimonTwoStageInput): SimonTwoStageResult {
@@ -236,6 +284,7 @@ export const simonTwoStage: Design<SimonTwoStageInput, SimonTwoStageResult> = {
     trueRates: [0.2],
   },
   compute: computeSimonTwoStage,
+  cost: costSimonTwoStage,
   question: (input) => input.mode === "evaluate"
     ? `How does the two-stage rule ${input.r1}/${input.n1}, then ${input.r}/${input.n} behave: how often does it stop early and declare the drug promising, at response rates ${input.p0} (uninteresting) and ${input.p1} (target) and across other true rates?`
     : `Which two-stage single-arm design, with at most ${input.maxN} patients, declares the drug promising with probability at most ${input.alpha} if its response rate is ${input.p0} and at least ${input.power} if it is ${input.p1}, while stopping early as often as possible when it is not active?`,

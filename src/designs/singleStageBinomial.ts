@@ -16,11 +16,12 @@
  * report lists the next sizes so that a protocol does not add patients blindly.
  */
 import { z } from "zod";
-import { type Design, InfeasibleDesignError } from "./design.js";
+import { type Design, InfeasibleDesignError, type WorkEstimate } from "./design.js";
 import type { Section } from "../report/document.js";
 import { checkResponseRates, responseRateFields } from "./shared/responseRates.js";
 import { binomialUpperTails as upperTails, rateGrid } from "./shared/twoStage.js";
 import { smallestSizeForPower } from "./shared/powerCeiling.js";
+import { type SingleStageRule, singleStageRuleAt } from "./shared/singleStageRule.js";
 import { designSection, protocolSection, responseRateCurveSection } from "./shared/reportSections.js";
 
 /** Sizes beyond this are not searched (p0 and p1 a few points apart need thousands). */
@@ -31,25 +32,43 @@ const schema = z.strictObject({ ...responseRateFields }).superRefine(checkRespon
 
 export type SingleStageBinomialInput = z.output<typeof schema>;
 
-export interface SingleStageRule {
-  n: number;
-  /** Declare promising if at least r respond. */
-  r: number;
-  alpha: number;
-  power: number;
-}
-
 export interface SingleStageBinomialResult extends SingleStageRule {
   nearbySizes: Array<SingleStageRule & { meetsTargets: boolean }>;
   curve: Array<[number, number]>;
 }
 
-/** The smallest critical count keeping alpha at size n, with its exact alpha and power. */
-export function singleStageRuleAt(n: number, p0: number, p1: number, alpha: number): SingleStageRule {
-  const t0 = upperTails(n, p0);
-  let r = 0;
-  while (t0[r]! > alpha + SLACK) r++;
-  return { n, r, alpha: t0[r]!, power: upperTails(n, p1)[r]! };
+/**
+ * The compute budget (budget.ts). Where the scan stops cannot be known without
+ * running it (exact power is saw-toothed), and finding where it starts costs
+ * as much as a good part of it, so the estimate is the most any input can
+ * take: every size up to SINGLE_STAGE_MAX_N scanned with two binomial
+ * distributions each, then the start's bisection (13 sizes), the nearby sizes
+ * (11) and the curve (53 rates) at the largest size, also two distributions
+ * each. About 26 million binomial terms in all: far inside the budget, so no
+ * input is refused.
+ *
+ * Constant from `npm run bench designs` (the single-stage-binomial heaviest
+ * cases, median CPU over 3 runs while other work shared the machine): the
+ * scan from n = 2,232 to 4,123 sums 12.8 million terms in 156 ms and the one
+ * from 3,979 to 4,990 9.9 million in 112 ms, 11 to 12 ns a term; 12.5 ns is
+ * taken. The heaviest inputs found reach only half the counted maximum, so
+ * the safety factor for slower runs is smaller than the other designs'.
+ */
+const MS_PER_TERM = 12.5e-6;
+const FIXED_MS = 5;
+const SAFETY = 1.25;
+const WORST_CASE_TERMS = (() => {
+  let scan = 0;
+  for (let n = 1; n <= SINGLE_STAGE_MAX_N; n++) scan += 2 * (n + 1);
+  return scan + 2 * (13 + 11 + 53) * (SINGLE_STAGE_MAX_N + 1);
+})();
+
+export function costSingleStageBinomial(): WorkEstimate {
+  return {
+    milliseconds: SAFETY * (FIXED_MS + WORST_CASE_TERMS * MS_PER_TERM),
+    breakdown: `at most ${SINGLE_STAGE_MAX_N.toLocaleString("en-US")} trial sizes scanned, ${Math.round(WORST_CASE_TERMS).toLocaleString("en-US")} binomial terms at most`,
+    reduce: [],
+  };
 }
 
 export function computeSingleStageBinomial(input: SingleStageBinomialInput): SingleStageBinomialResult {
@@ -132,6 +151,7 @@ export const singleStageBinomial: Design<SingleStageBinomialInput, SingleStageBi
   input: schema,
   example: { p0: 0.15, p1: 0.35, alpha: 0.05, power: 0.8 },
   compute: computeSingleStageBinomial,
+  cost: costSingleStageBinomial,
   question: (input) => `How many patients, and how many responses among them, are needed to declare the drug promising with probability at most ${input.alpha} if its response rate is ${input.p0} and at least ${input.power} if it is ${input.p1}?`,
   document: documentSingleStage,
   references: [

@@ -17,7 +17,7 @@
  * it says whether the rule declared the drug promising.
  */
 import { z } from "zod";
-import type { Design } from "./design.js";
+import type { Design, WorkEstimate } from "./design.js";
 import type { Section } from "../report/document.js";
 import {
   type TwoStageOutcome, allOutcomes, probabilityAtLeast, stagewiseInterval, umvue,
@@ -101,6 +101,38 @@ function inferenceRow(rule: TwoStageRule, outcome: TwoStageOutcome, p0: number, 
   };
 }
 
+/**
+ * The compute budget (budget.ts): every outcome of the design (n + 1 of them)
+ * gets an exact interval, two root searches whose every step sums the
+ * stage-wise tail over the n patients, a p-value, and an unbiased estimate
+ * summing at most min(n1, n - n1) + 1 weights. n ≤ 300 keeps it far inside
+ * the budget, so no input is refused.
+ *
+ * Constants from `npm run bench designs` (the two-stage-inference heaviest
+ * cases, 301 outcomes of 300 patients, median CPU over 3 runs while other
+ * work shared the machine: 60 to 75 ms): Brent's method took at most 27
+ * evaluations for one end of an interval (about 18 on average) over 150
+ * random designs with levels up to 0.999, so 30 are counted; an evaluation
+ * took about 15 ns a patient and a weight about 25 ns; 20 and 30 ns are
+ * taken, and the safety factor covers slower runs.
+ */
+const EVALUATIONS_PER_INTERVAL_END = 30;
+const MS_PER_PATIENT_EVALUATION = 2e-5;
+const MS_PER_WEIGHT = 3e-5;
+const FIXED_MS = 3;
+const SAFETY = 1.5;
+
+export function costTwoStageInference(input: TwoStageInferenceInput): WorkEstimate {
+  const outcomes = input.n + 1;
+  const evaluations = outcomes * (2 * EVALUATIONS_PER_INTERVAL_END + 1);
+  const weights = outcomes * (Math.min(input.n1, input.n - input.n1) + 1);
+  return {
+    milliseconds: SAFETY * (FIXED_MS + evaluations * (input.n + 1) * MS_PER_PATIENT_EVALUATION + weights * MS_PER_WEIGHT),
+    breakdown: `${outcomes} possible outcomes × (2 interval ends × up to ${EVALUATIONS_PER_INTERVAL_END} evaluations + 1 p-value) over ${input.n} patients`,
+    reduce: ["n"],
+  };
+}
+
 export function computeTwoStageInference(input: TwoStageInferenceInput): TwoStageInferenceResult {
   const rule = ruleOf(input);
   const stopped = input.stage1Responses <= input.r1;
@@ -181,6 +213,7 @@ export const twoStageInference: Design<TwoStageInferenceInput, TwoStageInference
   input: schema,
   example: { r1: 1, n1: 10, r: 5, n: 29, p0: 0.1, confidenceLevel: 0.95, stage1Responses: 3, stage2Responses: 4 },
   compute: computeTwoStageInference,
+  cost: costTwoStageInference,
   question: (input) => `The two-stage trial (${input.r1}/${input.n1}, then ${input.r}/${input.n}) ended with ${input.stage1Responses} stage-1 responses${input.stage2Responses === undefined ? "" : ` and ${input.stage2Responses} in stage 2`}: what is the response rate, with an exact ${input.confidenceLevel * 100}% confidence interval, and how strong is the evidence that it exceeds ${input.p0}?`,
   document: documentInference,
   references: [

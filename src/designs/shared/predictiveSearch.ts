@@ -51,6 +51,22 @@ export function evaluatePredictive(rule: PredictiveRule, p1: number, s: number, 
   return { alpha: atP0.promising, power: promising(p1).promising, expectedSizeAtP0: atP0.size, probabilityOfEarlyTerminationAtP0: atP0.early };
 }
 
+/** Work of the search at most, in the units of the design's cost: recursions over the patients, tables of predictive probabilities, posterior tail probabilities. */
+export interface ThresholdSearchWork {
+  recursions: number;
+  tables: number;
+  posteriorProbabilities: number;
+}
+
+/** Every efficacy threshold giving its own final count, every pair evaluated at p0 and p1. */
+export function thresholdSearchWork(maxN: number): ThresholdSearchWork {
+  return {
+    recursions: 2 * EFFICACY_GRID.length * FUTILITY_GRID.length,
+    tables: EFFICACY_GRID.length,
+    posteriorProbabilities: EFFICACY_GRID.length * (maxN + 1),
+  };
+}
+
 const better = (a: ThresholdCandidate, b: ThresholdCandidate): number =>
   a.expectedSizeAtP0 - b.expectedSizeAtP0 || b.power - a.power || a.efficacyThreshold - b.efficacyThreshold || a.futilityThreshold - b.futilityThreshold;
 

@@ -30,6 +30,7 @@
 import { binomialPmfArray } from "../../stats/binomial.js";
 import { binomialUpperTails, type TwoStageRule } from "./twoStage.js";
 import { mostPowerfulTestPower } from "./powerCeiling.js";
+import { singleStageRuleAt } from "./singleStageRule.js";
 
 export interface SimonTargets {
   p0: number;
@@ -71,7 +72,7 @@ export function searchSimon(t: SimonTargets, smallestN = 1): SimonSearchResult |
   const { p0, p1, maxN } = t;
   const alphaLimit = t.alpha + SLACK;
   const powerLimit = t.power - SLACK;
-  if (smallestN > maxN || mostPowerfulTestPower(maxN, p0, p1, alphaLimit) < powerLimit) return null;
+  if (smallestN > maxN || !searchCanSucceed(t)) return null;
   const tails0: Float64Array[] = [];
   const tails1: Float64Array[] = [];
   for (let m = 0; m < maxN; m++) {
@@ -128,6 +129,43 @@ export function searchSimon(t: SimonTargets, smallestN = 1): SimonSearchResult |
   const minimax = records[0]!;
   const optimal = records[records.length - 1]!;
   return { optimal, minimax, admissible: admissibleDesigns(records, optimal) };
+}
+
+/** Whether a search up to t.maxN can run at all: the most powerful test on maxN patients reaches the power. */
+export function searchCanSucceed(t: SimonTargets): boolean {
+  return mostPowerfulTestPower(t.maxN, t.p0, t.p1, t.alpha + SLACK) >= t.power - SLACK;
+}
+
+/** How many of the largest sizes up to maxN surelyFindsDesign tries (each two binomial distributions). */
+const WITNESS_SIZES = 8;
+
+/**
+ * Whether a search up to t.maxN is sure to find a design, without running it:
+ * some single-stage rule "promising if at least R of n respond" on one of the
+ * largest sizes n ≤ maxN meets the targets with R ≥ 2. The two-stage rule
+ * that enrols n − R + 1, stops if none responds and is otherwise promising
+ * above R − 1 responses of n has exactly its alpha and power (after no
+ * stage-1 response the R − 1 stage-2 patients cannot reach R), and the search
+ * covers it. False means only "not shown", not "no design".
+ */
+export function surelyFindsDesign(t: SimonTargets): boolean {
+  for (let n = t.maxN; n >= Math.max(2, t.maxN - WITNESS_SIZES + 1); n--) {
+    // Met without the search's 1e-12 slack, so that rounding in its sums cannot undo the witness.
+    const rule = singleStageRuleAt(n, t.p0, t.p1, t.alpha - 2 * SLACK);
+    if (rule.r >= 2 && rule.r <= n && rule.power >= t.power) return true;
+  }
+  return false;
+}
+
+/**
+ * At most how many binomial terms (the alpha and power sums of the candidate
+ * rules) a search up to maxN adds: maxN⁴/16. The most counted, over inputs for
+ * which no design exists so that nothing prunes the search, was 0.056·maxN⁴
+ * at maxN = 50 and 0.048·maxN⁴ at 300 (an empty search up to 299 followed by
+ * the search of total 300 included).
+ */
+export function searchTermsBound(maxN: number): number {
+  return maxN ** 4 / 16;
 }
 
 /**

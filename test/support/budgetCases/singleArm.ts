@@ -1,3 +1,58 @@
+// Single-arm and monitoring designs at the edge of their work. None of them
+// can exceed the compute budget within its schema's bounds, so each says why
+// instead of listing refused inputs; the figures are CPU medians from
+// `npm run bench designs` on the reference machine.
 import type { BudgetCaseTable } from "./types.js";
 
-export const singleArmCases: BudgetCaseTable = {};
+export const singleArmCases: BudgetCaseTable = {
+  "single-stage-binomial": {
+    heaviest: [
+      // The exact rule reaches the power 1,891 sizes after the randomized test does.
+      { name: "a rare response, scanned from 2,232 to 4,123 patients", inputs: { p0: 0.0001, p1: 0.0002, alpha: 0.1, power: 0.2 } },
+      { name: "a rare response, scanned from 3,979 to 4,990 patients", inputs: { p0: 0.00005, p1: 0.0006, alpha: 0.1, power: 0.8 } },
+    ],
+    overBudget: [],
+    boundedBySchema: "The scan stops at 5,000 patients, so every input costs at most about 26 million binomial terms; the heaviest found scans 1,891 sizes in about 30 ms.",
+  },
+  "simon-two-stage": {
+    heaviest: [
+      // The only designs are at 300 patients, so nothing prunes the search before it.
+      { name: "search up to 300 whose only design has 300 patients", inputs: { p0: 0.65, p1: 0.717, alpha: 0.05, power: 0.8, maxN: 300 } },
+      { name: "search up to 299 whose smallest design has 298 patients", inputs: { p0: 0.7, p1: 0.755, alpha: 0.1, power: 0.8, maxN: 299 } },
+    ],
+    overBudget: [],
+    boundedBySchema: "maxN is at most 300 and a search that finds nothing is continued over the larger totals only, so no input adds more than one search up to 300 (about 0.6 s at its heaviest).",
+  },
+  "gehan-two-stage": {
+    heaviest: [
+      { name: "688 stage-1 patients, each row from a 99.99% upper limit", inputs: { p1: 0.01, beta: 0.001, targetSE: 0.01, confidenceLevel: 0.9999 } },
+    ],
+    overBudget: [],
+    boundedBySchema: "p1 ≥ 0.01 and beta ≥ 0.001 allow at most 688 stage-1 patients, one beta quantile each, about 15 ms at most.",
+  },
+  "two-stage-inference": {
+    heaviest: [
+      { name: "every outcome of 0/150 then 100/300, 99.9% intervals", inputs: { r1: 0, n1: 150, r: 100, n: 300, p0: 0.3, confidenceLevel: 0.999, stage1Responses: 40, stage2Responses: 50 } },
+      { name: "every outcome of 100/200 then 120/300, 99.9% intervals", inputs: { r1: 100, n1: 200, r: 120, n: 300, p0: 0.5, confidenceLevel: 0.999, stage1Responses: 110, stage2Responses: 40 } },
+    ],
+    overBudget: [],
+    boundedBySchema: "n is at most 300, so there are at most 301 outcomes, each with two root searches over 300 patients, about 70 ms at most.",
+  },
+  "bayesian-monitoring": {
+    heaviest: [
+      {
+        name: "predictive threshold search, 300 patients checked one by one, 30 rates",
+        inputs: {
+          rule: "predictive", thresholds: "search", p0: 0.2, p1: 0.3, priorA: 0.2, priorB: 0.8, maxN: 300, cohortSize: 1, firstCheck: 1,
+          trueRates: Array.from({ length: 30 }, (_, i) => (i + 1) / 31),
+        },
+      },
+      {
+        name: "posterior futility rule, 300 patients checked one by one, 30 rates",
+        inputs: { rule: "posterior", monitor: "response", limit: 0.3, threshold: 0.95, maxN: 300, cohortSize: 1, trueRates: Array.from({ length: 30 }, (_, i) => (i + 1) / 31) },
+      },
+    ],
+    overBudget: [],
+    boundedBySchema: "maxN is at most 300 and a threshold search evaluates at most 440 pairs, so the heaviest input takes about 0.15 s.",
+  },
+};

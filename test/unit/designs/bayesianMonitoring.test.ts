@@ -5,6 +5,7 @@ import { describe, expect, it } from "vitest";
 import { expectClose, loadFixture } from "../../support/fixtures.js";
 import { type BayesianMonitoringInput, bayesianMonitoring } from "../../../src/designs/bayesianMonitoring.js";
 import { predictiveProbability } from "../../../src/designs/shared/bayesianRules.js";
+import { thresholdSearchWork } from "../../../src/designs/shared/predictiveSearch.js";
 import { InfeasibleDesignError } from "../../../src/designs/design.js";
 import { betaCdf, betaSurvival } from "../../../src/stats/beta.js";
 import { betaBinomialPmf } from "../../../src/stats/betaBinomial.js";
@@ -294,5 +295,23 @@ describe("degenerate first check", () => {
     const input = parse({ rule: "predictive", p0: 0.2, p1: 0.4, priorA: 0.001, priorB: 1000, maxN: 300, firstCheck: 1 });
     expect(() => bayesianMonitoring.compute(input)).toThrow(InfeasibleDesignError);
     expect(() => bayesianMonitoring.compute(input)).toThrow(/\(1 patient\) whatever the outcomes: even a response in that patient gives/);
+  });
+});
+
+describe("compute budget estimate", () => {
+  const searched = { rule: "predictive", thresholds: "search", p0: 0.2, p1: 0.35, priorA: 0.2, priorB: 0.8, maxN: 60, firstCheck: 1 };
+
+  it("counts at least the threshold pairs the search evaluates, two recursions each", () => {
+    const r = bayesianMonitoring.compute(parse(searched));
+    expect(r.search!.evaluated).toBeGreaterThan(0);
+    expect(r.search!.evaluated).toBeLessThanOrEqual(thresholdSearchWork(60).recursions / 2);
+  });
+
+  it("grows with the patients, the rates and a threshold search", () => {
+    const cost = (raw: Record<string, unknown>) => bayesianMonitoring.cost!(parse(raw)).milliseconds;
+    expect(cost({ limit: 0.2, maxN: 300 })).toBeGreaterThan(cost({ limit: 0.2, maxN: 100 }));
+    expect(cost({ limit: 0.2, maxN: 300, trueRates: [0.1, 0.2, 0.3, 0.4, 0.5, 0.6] })).toBeGreaterThan(cost({ limit: 0.2, maxN: 300, trueRates: [0.1] }));
+    const { thresholds: _search, ...given } = searched;
+    expect(cost(searched)).toBeGreaterThan(cost(given));
   });
 });

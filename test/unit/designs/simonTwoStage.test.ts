@@ -2,11 +2,12 @@
 // memory), exact characteristics and a brute-force search from
 // test/fixtures/activity/generate.R (R 4.2 stats::dbinom, pbinom), and a seeded
 // Monte Carlo of the same rule.
+import fc from "fast-check";
 import { describe, expect, it } from "vitest";
 import { expectClose, loadFixture } from "../../support/fixtures.js";
 import { InfeasibleDesignError } from "../../../src/designs/design.js";
 import { simonTwoStage } from "../../../src/designs/simonTwoStage.js";
-import { searchSimon } from "../../../src/designs/shared/simonSearch.js";
+import { searchSimon, surelyFindsDesign } from "../../../src/designs/shared/simonSearch.js";
 import { evaluateTwoStage, summarizeTwoStage, type TwoStageRule } from "../../../src/designs/shared/twoStage.js";
 import { createRandom } from "../../../src/stats/random.js";
 
@@ -235,5 +236,31 @@ describe("degenerate targets", () => {
     expect(p.success ? [] : p.error.issues.map((i) => i.path.join("."))).toEqual(["power"]);
     const result = simonTwoStage.compute(parse({ mode: "search", p0: 0.1, p1: 0.3, alpha: 1e-6, power: 0.8, maxN: 300 }));
     expect(result.optimal?.alpha).toBeLessThanOrEqual(1e-6);
+  });
+});
+
+describe("compute budget estimate", () => {
+  const cost = (inputs: Record<string, unknown>) => simonTwoStage.cost!(parse(inputs));
+
+  it("a design promised by the single-stage witness is always found by the search (the estimate leaves out the second search on its word)", () => {
+    const rate = fc.double({ min: 0.001, max: 0.999, noNaN: true });
+    const targets = fc.record({
+      p0: rate, gap: fc.double({ min: 0.01, max: 0.6, noNaN: true }),
+      alpha: fc.constantFrom(1e-6, 0.001, 0.01, 0.05, 0.1, 0.2, 0.5),
+      power: fc.constantFrom(0.1, 0.5, 0.8, 0.9, 0.99, 0.999999),
+      maxN: fc.integer({ min: 2, max: 80 }),
+    }).filter((t) => t.p0 + t.gap < 1 && t.power > t.alpha);
+    fc.assert(fc.property(targets, ({ gap, ...t }) => {
+      const target = { ...t, p1: t.p0 + gap };
+      return !surelyFindsDesign(target) || searchSimon(target) !== null;
+    }), { seed: 1989, numRuns: 400 });
+  });
+
+  it("counts a search up to maxN when a design within it is certain, up to 300 when not, and none when no rule on 300 patients reaches the power", () => {
+    expect(cost({ p0: 0.1, p1: 0.3, maxN: 60 }).breakdown).toContain("up to 60 patients");
+    // The smallest design has 25 patients (Simon 1989 table 1, from memory): an empty search up to 24 goes on to 300.
+    expect(cost({ p0: 0.1, p1: 0.3, maxN: 24 }).breakdown).toContain("up to 300 patients");
+    expect(cost({ p0: 0.5, p1: 0.55, alpha: 0.01, power: 0.99, maxN: 100 }).breakdown).toContain("no search");
+    expect(cost({ p0: 0.1, p1: 0.3, maxN: 24 }).milliseconds).toBeGreaterThan(cost({ p0: 0.1, p1: 0.3, maxN: 60 }).milliseconds);
   });
 });
