@@ -27,7 +27,7 @@
  * washout must rule it out.
  */
 import { z } from "zod";
-import { type Design } from "./design.js";
+import type { Design, WorkEstimate } from "./design.js";
 import type { Section } from "../report/document.js";
 import { normalCdf, normalQuantile } from "../stats/normal.js";
 import { studentTQuantile } from "../stats/studentT.js";
@@ -35,6 +35,8 @@ import { noncentralTCdf, noncentralTSurvival } from "../stats/noncentralT.js";
 import { type ArmSizes, detectableEffect, effectCurve, powerCurve, rememberPower, smallestSampleSize } from "./shared/sizing.js";
 import { checkComparativeCommon, comparativeCommonFields, groupSizeField, solveForField } from "./shared/fields.js";
 import { designSection, protocolSection } from "./shared/reportSections.js";
+import { EFFECT_CURVE_EVALUATIONS, NORMAL_POWER_MS, T_POWER_MS, sizingEvaluations, sizingWords } from "./shared/sizingCost.js";
+import { workEstimate } from "./shared/workEstimate.js";
 import { type TwoArmCounts, effectCurveChart, twoArmCounts, powerCurveChart, powerCurveTable } from "./shared/comparativeSections.js";
 
 const MAX_PER_SEQUENCE = 100000;
@@ -126,6 +128,20 @@ export function crossoverPower(test: CrossoverTest, withinSubjectSd: number, seq
   }
   const shift = test.hypothesis === "non-inferiority" ? test.margin! : 0;
   return upper(crit(1 - test.alpha), (delta + shift) / se);
+}
+
+/**
+ * The work before computing: power evaluations for the sizes, the power curve
+ * and the effect curve (sizingCost.ts). At most a few milliseconds for any
+ * admitted input, so no input is refused.
+ */
+export function costCrossover2x2(input: Crossover2x2Input): WorkEstimate {
+  const exact = input.method === "exact-t";
+  return workEstimate([{
+    count: sizingEvaluations(input.solveFor, MAX_PER_SEQUENCE) + EFFECT_CURVE_EVALUATIONS,
+    msEach: exact ? T_POWER_MS : NORMAL_POWER_MS,
+    what: `evaluations of the ${exact ? "noncentral t" : "normal"} power: ${sizingWords(input.solveFor, MAX_PER_SEQUENCE, "per sequence")}, and the effect curve`,
+  }], []);
 }
 
 /** The smallest difference detected with the target power at the given sequence sizes, to 1e-10 standard errors. */
@@ -267,6 +283,7 @@ export const crossover2x2: Design<Crossover2x2Input, Crossover2x2Result> = {
     dropout: 0.1,
   },
   compute: computeCrossover2x2,
+  cost: costCrossover2x2,
   question: (input) => {
     const who = input.solveFor === "sample-size"
       ? "How many subjects in an AB/BA crossover"

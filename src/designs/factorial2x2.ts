@@ -40,7 +40,7 @@
  * size per cell is the larger of the two main effects' sizes.
  */
 import { z } from "zod";
-import { type Design, InfeasibleDesignError } from "./design.js";
+import { type Design, InfeasibleDesignError, type WorkEstimate } from "./design.js";
 import type { Section } from "../report/document.js";
 import { normalCdf, normalQuantile } from "../stats/normal.js";
 import { studentTQuantile } from "../stats/studentT.js";
@@ -50,6 +50,10 @@ import { twoProportionsPower } from "./shared/twoProportionsPower.js";
 import { curveSizes, detectableEffect, inflateForDropout, rememberPower, smallestSampleSize } from "./shared/sizing.js";
 import { designSection, protocolSection } from "./shared/reportSections.js";
 import { checkComparativeCommon, comparativeCommonFields, probabilityField } from "./shared/fields.js";
+import {
+  DETECTABLE_EFFECT_EVALUATIONS, NORMAL_POWER_MS, POWER_CURVE_EVALUATIONS, T_POWER_MS, sizeSearchEvaluations,
+} from "./shared/sizingCost.js";
+import { formatCount, workEstimate } from "./shared/workEstimate.js";
 
 const MAX_PER_CELL = 50000;
 const { alpha, power, sides, dropout } = comparativeCommonFields;
@@ -262,6 +266,25 @@ function detectableMeansEffect(input: Factorial2x2Input, perCell: number, level:
 }
 
 const effectField = (input: Factorial2x2Input, factor: Factor): string => (input.outcome === "means" ? `effect${factor}` : `rate${factor}`);
+
+/**
+ * The work before computing, in power evaluations (sizingCost.ts): three size
+ * searches up to the bound per cell (A, B and the interaction, whatever is
+ * solved for), Holm's extra powers, the detectable main effect for means, and
+ * three power curves. At most a few milliseconds for any admitted input, so no
+ * input is refused.
+ */
+export function costFactorial2x2(input: Factorial2x2Input): WorkEstimate {
+  const means = input.outcome === "means";
+  const exact = means && input.method === "exact-t";
+  const count = 3 * sizeSearchEvaluations(2, MAX_PER_CELL) + (input.multiplicity === "holm" ? 6 : 0) + 3 +
+    (means ? DETECTABLE_EFFECT_EVALUATIONS : 0) + 3 * POWER_CURVE_EVALUATIONS;
+  return workEstimate([{
+    count,
+    msEach: exact ? T_POWER_MS : NORMAL_POWER_MS,
+    what: `evaluations of the ${exact ? "noncentral t" : "normal"} power: searches of sizes up to ${formatCount(MAX_PER_CELL)} per cell for both main effects and the interaction${means ? ", the detectable main effect" : ""} and three power curves`,
+  }], []);
+}
 
 export function computeFactorial2x2(input: Factorial2x2Input): Factorial2x2Result {
   const level = mainEffectAlpha(input);
@@ -502,6 +525,7 @@ export const factorial2x2: Design<Factorial2x2Input, Factorial2x2Result> = {
     dropout: 0.1,
   },
   compute: computeFactorial2x2,
+  cost: costFactorial2x2,
   question: (input) => {
     const effects = input.outcome === "means"
       ? `main effects of ${input.effectA} (A) and ${input.effectB} (B) in outcome units, standard deviation ${input.sd}`

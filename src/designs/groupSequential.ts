@@ -25,7 +25,7 @@
  *   the planned maximum information; the final analysis spends all alpha left.
  */
 import { z } from "zod";
-import type { Design } from "./design.js";
+import type { Design, WorkEstimate } from "./design.js";
 import { protocolSection } from "./shared/reportSections.js";
 import type { Block, Section } from "../report/document.js";
 import {
@@ -33,6 +33,8 @@ import {
 } from "./shared/groupSequentialPlan.js";
 import { boundaryChart, boundaryMethodText, decisionTable, exitTable, groupSequentialReferences } from "./shared/groupSequentialReport.js";
 import { MAX_POWER, MIN_ALPHA, groupSequentialFields, refineFractions } from "./shared/interimLooks.js";
+import { groupSequentialWork } from "./shared/groupSequentialCost.js";
+import { type WorkPart, workEstimate } from "./shared/workEstimate.js";
 
 const schema = z
   .strictObject({
@@ -103,6 +105,18 @@ function specOf(input: GroupSequentialInput): GroupSequentialSpec {
     power: input.power,
     sides: input.sides,
   };
+}
+
+/**
+ * The work before computing, in looks of the recursion (groupSequentialCost.ts):
+ * the planned looks, and the observed looks when the boundaries are recomputed.
+ * At most 20 looks under 10 ms each, so no input is refused.
+ */
+export function costGroupSequential(input: GroupSequentialInput): WorkEstimate {
+  const futility = input.futilityBoundary !== "none";
+  const parts: WorkPart[] = [groupSequentialWork(input.looks, futility, "planned looks")];
+  if (input.mode === "observed-looks") parts.push(groupSequentialWork(input.observedFractions?.length ?? 0, futility, "observed looks"));
+  return workEstimate(parts, input.mode === "observed-looks" ? ["looks", "observedFractions"] : ["looks"]);
 }
 
 export function computeGroupSequential(input: GroupSequentialInput): GroupSequentialResult {
@@ -205,6 +219,7 @@ export const groupSequential: Design<GroupSequentialInput, GroupSequentialResult
     lastObservedIsFinal: false,
   },
   compute: computeGroupSequential,
+  cost: costGroupSequential,
   question: (input) =>
     `Where should the boundaries lie at ${input.looks} look${input.looks === 1 ? "" : "s"} (at ${input.informationFractions.map((t) => t.toFixed(2)).join(", ")} of the information) so that the ${input.sides === 2 ? "two-sided" : "one-sided"} type I error stays at ${input.alpha} with ${input.power * 100}% power, and how much more information than a single analysis does that take?`,
   document: documentGroupSequential,

@@ -17,7 +17,7 @@
  * level α each; sample sizes are the smallest integers meeting the target power.
  */
 import { z } from "zod";
-import { type Design, InfeasibleDesignError } from "./design.js";
+import { type Design, InfeasibleDesignError, type WorkEstimate } from "./design.js";
 import type { Section } from "../report/document.js";
 import { normalCdf, normalQuantile } from "../stats/normal.js";
 import { studentTQuantile } from "../stats/studentT.js";
@@ -28,6 +28,9 @@ import {
   type ArmSizes, armsFromControl, detectableEffect, powerCurve, rememberPower, smallestSampleSize,
 } from "./shared/sizing.js";
 import { comparativeCommonFields } from "./shared/fields.js";
+import { NORMAL_POWER_MS, T_POWER_MS, sizingEvaluations, sizingWords } from "./shared/sizingCost.js";
+import { groupSequentialWork } from "./shared/groupSequentialCost.js";
+import { type WorkPart, workEstimate } from "./shared/workEstimate.js";
 import { type InterimLooksResult, interimLooksField, planInterimLooks, refineInterimTest } from "./shared/interimLooks.js";
 import { designSection } from "./shared/reportSections.js";
 import { type TwoArmCounts, closingSections, twoArmCounts, powerCurveChart, powerCurveTable, twoArmFacts, twoArmTable } from "./shared/comparativeSections.js";
@@ -158,6 +161,34 @@ function criticalValue(input: TwoMeansInput, df: number): number {
   return input.method === "exact-t" ? studentTQuantile(p, df) : normalQuantile(p);
 }
 
+/**
+ * CPU of one exact equivalence power: a quadrature of at most about 800
+ * integrand evaluations, measured at 0.55 ms at most from 2 to 2 × 10⁶ degrees
+ * of freedom; the heaviest two-means cases of `npm run bench designs` (an
+ * equivalence search at 10 experimental per control participant) took about
+ * 0.4 ms an evaluation.
+ */
+const TOST_POWER_MS = 0.6;
+
+/**
+ * The work before computing: power evaluations for the sizes and the power
+ * curve (sizingCost.ts), each costing what the method's power takes, and the
+ * interim looks' boundaries when asked for. Every admitted input stays under
+ * a tenth of the budget, so no input is refused.
+ */
+export function costTwoMeans(input: TwoMeansInput): WorkEstimate {
+  const exact = input.method === "exact-t";
+  const equivalence = input.hypothesis === "equivalence";
+  const kernel = exact && equivalence
+    ? { msEach: TOST_POWER_MS, what: "evaluations of the exact equivalence power (each a numerical integral)" }
+    : exact ? { msEach: T_POWER_MS, what: "evaluations of the noncentral t power" } : { msEach: NORMAL_POWER_MS, what: "evaluations of the normal power" };
+  // Solving an equivalence difference first checks the power at no difference.
+  const count = sizingEvaluations(input.solveFor, MAX_PER_ARM) + (equivalence && input.solveFor === "difference" ? 1 : 0);
+  const parts: WorkPart[] = [{ count, msEach: kernel.msEach, what: `${kernel.what}: ${sizingWords(input.solveFor, MAX_PER_ARM, "per control arm")}` }];
+  if (input.interimLooks) parts.push(groupSequentialWork(input.interimLooks.looks, input.interimLooks.futilityBoundary !== "none"));
+  return workEstimate(parts, input.interimLooks ? ["interimLooks"] : []);
+}
+
 export function computeTwoMeans(input: TwoMeansInput): TwoMeansResult {
   const delta = input.solveFor === "difference" ? solveDifference(input, { n1: input.n1!, n2: input.n2! }) : input.delta!;
   const powerAt = rememberPower((a) => twoMeansPower(input, a, delta));
@@ -270,6 +301,7 @@ export const twoMeans: Design<TwoMeansInput, TwoMeansResult> = {
     dropout: 0.1,
   },
   compute: computeTwoMeans,
+  cost: costTwoMeans,
   question: (input) => {
     const what = input.solveFor === "sample-size"
       ? "How many participants per arm"

@@ -33,17 +33,20 @@
  * inflation factor can be applied in between.
  */
 import { z } from "zod";
-import { type Design, InfeasibleDesignError } from "./design.js";
+import { type Design, InfeasibleDesignError, type WorkEstimate } from "./design.js";
 import type { ChartSeries, Section } from "../report/document.js";
 import { normalQuantile } from "../stats/normal.js";
 import {
-  type ArmSizes, type SizeScanResult, armsFromControl, curveSizes, effectCurve,
+  type ArmSizes, CURVE_POINTS, type SizeScanResult, armsFromControl, curveSizes, effectCurve,
   scanSampleSizes, smallestSampleSize,
 } from "./shared/sizing.js";
 import { checkComparativeCommon, comparativeCommonFields, groupSizeField, probabilityField, solveForField } from "./shared/fields.js";
 import { type ProportionsTest, nullDifference, twoProportionsPower } from "./shared/twoProportionsPower.js";
 import { type InterimLooksResult, interimLooksField, planInterimLooks, refineInterimTest } from "./shared/interimLooks.js";
 import { designSection } from "./shared/reportSections.js";
+import { EFFECT_CURVE_EVALUATIONS, NORMAL_POWER_MS, POWER_CURVE_EVALUATIONS, sizingEvaluations, sizingWords } from "./shared/sizingCost.js";
+import { groupSequentialWork } from "./shared/groupSequentialCost.js";
+import { type WorkPart, workEstimate } from "./shared/workEstimate.js";
 import { type TwoArmCounts, closingSections, twoArmCounts, effectCurveChart, powerCurveChart, powerCurveTable, twoArmFacts, twoArmTable } from "./shared/comparativeSections.js";
 
 const MAX_PER_ARM = 100000;
@@ -52,6 +55,10 @@ export const EXACT_SEARCH_MAX_PER_ARM = 500;
 /** Largest arm for which exact power is computed at given sizes. */
 export const EXACT_MAX_PER_ARM = 1000;
 const STABILITY_MULTIPLE = 2;
+/** Points of the exact method's effect curve (each a full enumeration). */
+const EXACT_EFFECT_CURVE_POINTS = 15;
+/** Width at which the detectable proportion's bisection stops, on the proportion scale. */
+const PROPORTION_RESOLUTION = 1e-12;
 
 const isProportion = (x: unknown): x is number => typeof x === "number" && x > 0 && x < 1;
 
@@ -220,11 +227,77 @@ function solveDetectableProportion(input: TwoProportionsInput, arms: ArmSizes): 
   }
   // Power at the null difference is alpha < target, so the root is bracketed.
   let a = lo, b = hi;
-  for (let i = 0; i < 200 && b - a > 1e-12; i++) {
+  for (let i = 0; i < 200 && b - a > PROPORTION_RESOLUTION; i++) {
     const mid = (a + b) / 2;
     if (powerAtEffect(mid) >= input.power) b = mid; else a = mid;
   }
   return fromOriented(input, o1 + b);
+}
+
+/**
+ * Work of one exact power evaluation, in terms: given each total t of
+ * responses (n1 + n2 + 1 of them), the conditional distribution is computed
+ * only over the few standard deviations that can decide the test, a window
+ * growing as √min(n1, n2) (fisherExact.ts).
+ */
+function fisherTerms(n1: number, n2: number): number {
+  return (n1 + n2 + 1) * Math.sqrt(Math.min(n1, n2) + 1);
+}
+
+/**
+ * CPU a term, from `npm run bench designs` (the two-proportions heaviest
+ * cases, exact scans to 500 per arm: median CPU over 3 runs divided by their
+ * terms) and from single evaluations timed from 10 to 4,000 per arm: 27 to
+ * 54 ns a term.
+ */
+const MS_PER_FISHER_TERM = 6e-5;
+
+/** Bisection steps of the detectable proportion: its bracket is at most 2 wide. */
+const DETECTABLE_PROPORTION_EVALUATIONS = 2 + Math.ceil(Math.log2(2 / PROPORTION_RESOLUTION));
+
+/**
+ * The work before computing. The exact method's sample size scans every
+ * control-arm size up to the search bound (counted in full: where the target
+ * is first reached is not known before), then draws its effect curve at sizes
+ * no larger; at given sizes it evaluates them, the power curve's sizes and the
+ * effect curve. The normal methods count power evaluations as the other
+ * comparative designs do (sizingCost.ts); interim looks add their boundaries.
+ * The exact scan is bounded by 500 per arm and given sizes by 1,000, so every
+ * admitted input stays within a fifth of the budget and none is refused.
+ */
+export function costTwoProportions(input: TwoProportionsInput): WorkEstimate {
+  const parts: WorkPart[] = [];
+  if (input.method === "fisher-exact") {
+    const ratio = input.allocationRatio;
+    let terms = 0;
+    let words: string;
+    if (input.solveFor === "sample-size") {
+      const maximum = controlLimit(EXACT_SEARCH_MAX_PER_ARM, ratio);
+      for (let n1 = 2; n1 <= maximum; n1++) terms += fisherTerms(n1, armsFromControl(n1, ratio).n2);
+      const largest = armsFromControl(maximum, ratio);
+      terms += EXACT_EFFECT_CURVE_POINTS * fisherTerms(largest.n1, largest.n2);
+      words = `every control-arm size from 2 to ${maximum} and the effect curve`;
+      parts.push({ count: maximum, msEach: NORMAL_POWER_MS, what: "evaluations of the normal power beside it" });
+    } else {
+      const n1 = input.n1!, n2 = input.n2!;
+      terms += (1 + EXACT_EFFECT_CURVE_POINTS) * fisherTerms(n1, n2);
+      for (const size of curveSizes(n1, 2)) {
+        const arms = armsFromControl(size, ratio);
+        if (arms.n2 <= EXACT_MAX_PER_ARM) terms += fisherTerms(arms.n1, arms.n2);
+      }
+      words = `the given sizes, the power curve's and the effect curve`;
+      parts.push({ count: POWER_CURVE_EVALUATIONS, msEach: NORMAL_POWER_MS, what: "evaluations of the normal power beside it" });
+    }
+    parts.unshift({ count: terms, msEach: MS_PER_FISHER_TERM, what: `terms of Fisher's exact power (${words})` });
+    return workEstimate(parts, input.solveFor === "sample-size" ? [] : ["n1", "n2"]);
+  }
+  const count = input.solveFor === "difference"
+    ? DETECTABLE_PROPORTION_EVALUATIONS + 1 + POWER_CURVE_EVALUATIONS
+    : sizingEvaluations(input.solveFor, MAX_PER_ARM);
+  const why = input.solveFor === "difference" ? "a bisection for the proportion and the power curve" : sizingWords(input.solveFor, MAX_PER_ARM, "per control arm");
+  parts.push({ count: count + EFFECT_CURVE_EVALUATIONS, msEach: NORMAL_POWER_MS, what: `evaluations of the normal power: ${why}, and the effect curve` });
+  if (input.interimLooks) parts.push(groupSequentialWork(input.interimLooks.looks, input.interimLooks.futilityBoundary !== "none"));
+  return workEstimate(parts, input.interimLooks ? ["interimLooks"] : []);
 }
 
 export function computeTwoProportions(input: TwoProportionsInput): TwoProportionsResult {
@@ -275,7 +348,7 @@ function proportionCurve(input: TwoProportionsInput, arms: ArmSizes, p2: number)
   const lo = nullDifference(testOf(input));
   const design = toOriented(input, p2) - o1;
   const hi = Math.min(1 - o1 - 1e-6, lo + 2 * (Math.abs(design) - lo));
-  const points = input.method === "fisher-exact" ? 15 : 25;
+  const points = input.method === "fisher-exact" ? EXACT_EFFECT_CURVE_POINTS : CURVE_POINTS;
   return effectCurve(lo, hi, (e) => twoProportionsPower(o1, o1 + e, arms, testOf(input), input.method), points)
     .map(([e, power]) => [fromOriented(input, o1 + e), power]);
 }
@@ -397,6 +470,7 @@ export const twoProportions: Design<TwoProportionsInput, TwoProportionsResult> =
     dropout: 0.1,
   },
   compute: computeTwoProportions,
+  cost: costTwoProportions,
   question: (input) => {
     const what = input.betterWhen === "higher" ? "proportion with the outcome" : "event proportion";
     const who = input.solveFor === "sample-size"

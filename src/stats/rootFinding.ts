@@ -3,6 +3,9 @@
  * (Brent 1973, Algorithms for Minimization without Derivatives, chapter 4).
  */
 
+/** Iterations of Brent's method unless a caller asks for others; each evaluates f once. */
+export const ROOT_MAX_ITERATIONS = 200;
+
 interface RootOptions {
   tolerance?: number;
   maxIterations?: number;
@@ -15,7 +18,7 @@ interface RootOptions {
  */
 export function findRoot(f: (x: number) => number, lo: number, hi: number, options: RootOptions = {}): number {
   const tol = options.tolerance ?? 1e-12;
-  const maxIter = options.maxIterations ?? 200;
+  const maxIter = options.maxIterations ?? ROOT_MAX_ITERATIONS;
   let a = lo;
   let b = hi;
   let fa = f(a);

@@ -105,8 +105,11 @@ export function detectableEffect(powerAtEffect: (effect: number) => number, targ
 /** Resolution of a detectable effect, in units of its scale (one standard error for effects in outcome units). */
 export const DETECTABLE_EFFECT_RESOLUTION = 1e-10;
 
+/** Points on a power or effect curve unless a design asks for others. */
+export const CURVE_POINTS = 25;
+
 /** Control-arm sizes for a power curve around n: from about a quarter to twice it. */
-export function curveSizes(n1: number, minimum: number, points = 25): number[] {
+export function curveSizes(n1: number, minimum: number, points = CURVE_POINTS): number[] {
   const lo = Math.max(minimum, Math.floor(n1 / 4));
   const hi = Math.max(lo + points, Math.ceil(n1 * 2));
   const sizes = new Set<number>();
@@ -186,7 +189,7 @@ export function scanSampleSizes(scan: SizeScan): SizeScanResult {
 }
 
 /** Points [effect, power] on an even grid of effects from lo to hi. */
-export function effectCurve(lo: number, hi: number, powerAtEffect: (effect: number) => number, points = 25): Array<[number, number]> {
+export function effectCurve(lo: number, hi: number, powerAtEffect: (effect: number) => number, points = CURVE_POINTS): Array<[number, number]> {
   const out: Array<[number, number]> = [];
   for (let i = 0; i < points; i++) {
     const effect = lo + ((hi - lo) * i) / (points - 1);

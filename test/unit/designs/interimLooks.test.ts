@@ -22,8 +22,9 @@ describe("interim looks in two-means", () => {
     const plain = twoMeans.compute(twoMeans.input.parse({ delta: 0.5, sd: 1, alpha: 0.05, power: 0.8 }));
     expect(plain.n1).toBe(64);
     expect("interimLooks" in plain).toBe(false);
-    // Version 2 is the two-sided power kept within [0, 1] (degenerate-input audit); the option itself bumped nothing.
-    expect(twoMeans.version).toBe(2);
+    // Version 2 is the two-sided power kept within [0, 1] (degenerate-input audit), 3 the detectable difference
+    // resolved in standard errors and 4 the better-conditioned equivalence quadrature; the option itself bumped nothing.
+    expect(twoMeans.version).toBe(4);
   });
   it("refuses interim looks when not solving for the sample size, or for equivalence", () => {
     const r1 = twoMeans.input.safeParse({ ...base, solveFor: "power", n1: 50, n2: 50, interimLooks: { looks: 2 } });

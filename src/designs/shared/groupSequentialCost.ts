@@ -1,0 +1,30 @@
+/**
+ * The work of group-sequential boundaries (groupSequentialPlan.ts), counted in
+ * looks. At each look the boundary is a root of a crossing probability summed
+ * over the look's grid, and the drift (the maximum information) is found by
+ * secant steps that each pass the recursion over every look; with futility,
+ * each of those steps also solves a futility boundary at every look. So the
+ * work grows with the looks, by a factor set by the futility boundaries.
+ *
+ * Counted over every boundary family, γ at ±10, fractions bunched at 0.01 or
+ * at 0.99, one- and two-sided tests, α from 1e-5 to 0.5 and power up to
+ * 0.9999: at most 20 passes of the grid from look to look and 121 crossing sums
+ * per look without futility, 34 and 741 with it; observed looks take fewer, as
+ * the drift is kept. The costs per look are the heaviest group-sequential cases
+ * of `npm run bench designs` (median CPU over 3 runs) divided by their looks:
+ * 3.6 to 4.7 ms a look without futility and 6.0 to 6.9 ms with it, while other
+ * work shared the machine.
+ */
+import type { WorkPart } from "./workEstimate.js";
+
+const MS_PER_LOOK = 5;
+const MS_PER_LOOK_WITH_FUTILITY = 7.5;
+
+/** Boundaries at `looks` looks (planned or observed), with or without futility boundaries. */
+export function groupSequentialWork(looks: number, futility: boolean, which = "looks"): WorkPart {
+  return {
+    count: looks,
+    msEach: futility ? MS_PER_LOOK_WITH_FUTILITY : MS_PER_LOOK,
+    what: `${which} of group-sequential boundaries${futility ? " with futility" : ""} (recursive numerical integration)`,
+  };
+}
