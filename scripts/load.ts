@@ -13,6 +13,9 @@
  *   per design: its example under a new label each request, so every answer is
  *   validated, computed, sealed and stored (201), never served from the store.
  *
+ * With --explain, three more routes run interleaved with those four and take a
+ * cached permalink apart (explainScenarios).
+ *
  * The Worker is built from a copy of the sources taken at the start, so edits
  * saved meanwhile do not restart it mid-run. Figures are compared as ratios
  * within one run: the load generator and the Worker share this machine's
@@ -27,7 +30,7 @@ import { resolve } from "node:path";
 import { RENDERING_HEADER } from "../src/api/permalinks.js";
 import { type RunningWorker, startWorker } from "../test/browser/server.js";
 import { type LoadOptions, USAGE, parseOptions } from "./load/options.js";
-import { type Check, type Comparison, checks, cpuRatios, formatRatios, formatTable, formatUnexpected, ratios } from "./load/report.js";
+import { type Check, type Comparison, checks, cpuRatios, formatBreakdown, formatRatios, formatTable, formatUnexpected, ratios } from "./load/report.js";
 import { idleCpuMsPerSecond } from "./load/processCpu.js";
 import { type Scenario, type WorkerProcesses, runScenarios, stopScenarios } from "./load/scenario.js";
 import { snapshotWorkerSources } from "./load/snapshot.js";
@@ -66,19 +69,19 @@ function describeMachine(): string {
   ].join("\n");
 }
 
-async function post(url: string, body: unknown): Promise<{ status: number; json: { id?: string } }> {
+async function post(url: string, body: unknown): Promise<{ status: number; json: { id?: string; digest?: string } }> {
   const response = await fetch(url, { method: "POST", headers: { "content-type": "application/json" }, body: JSON.stringify(body) });
-  return { status: response.status, json: await response.json() as { id?: string } };
+  return { status: response.status, json: await response.json() as { id?: string; digest?: string } };
 }
 
 /** Freezes the permalink design's example once and draws its PDF once, so the permalink scenarios read only stored data. */
-async function preparePermalink(url: string, design: CatalogEntry): Promise<string> {
-  const created = await post(`${url}${design.links.calculations}`, { inputs: design.example, label: "Load test permalink" });
-  if (created.status !== 201 || !created.json.id) throw new Error(`freezing the ${design.id} example answered ${created.status}: ${JSON.stringify(created.json)}`);
-  const pdf = await fetch(`${url}/c/${created.json.id}.pdf`);
+async function preparePermalink(url: string, design: CatalogEntry): Promise<{ id: string; digest: string }> {
+  const { status, json } = await post(`${url}${design.links.calculations}`, { inputs: design.example, label: "Load test permalink" });
+  if (status !== 201 || !json.id || !json.digest) throw new Error(`freezing the ${design.id} example answered ${status}: ${JSON.stringify(json)}`);
+  const pdf = await fetch(`${url}/c/${json.id}.pdf`);
   await pdf.arrayBuffer();
   if (pdf.status !== 200) throw new Error(`drawing the PDF answered ${pdf.status}`);
-  return created.json.id;
+  return { id: json.id, digest: json.digest };
 }
 
 const COMPARISON: Comparison = { trivial: "trivial route", html: "cached permalink, HTML", json: "cached permalink, JSON", pdf: "cached permalink, PDF" };
@@ -95,6 +98,21 @@ function readScenarios(options: LoadOptions, id: string): Scenario[] {
       name: COMPARISON.pdf, ...sizes, request: { method: "GET", path: `/c/${id}.pdf` },
       unexpected: (status, headers) => ok(status, headers) ?? (header(headers, RENDERING_HEADER) === "cached" ? undefined : "PDF drawn again instead of read from KV"),
     },
+  ];
+}
+
+/**
+ * What a cached permalink is made of, beside the trivial route: the record
+ * read and its digest checked without a body (a revalidation answered 304), a
+ * storage read that finds nothing (404), and a JSON body built in memory
+ * without storage (the design's description).
+ */
+function explainScenarios(options: LoadOptions, id: string, digest: string, design: CatalogEntry): Scenario[] {
+  const sizes = { connections: options.connections, amount: options.amount, durationSeconds: options.durationSeconds, warmup: options.warmup };
+  return [
+    { name: "permalink JSON revalidated (304: KV read, digest, no body)", ...sizes, request: { method: "GET", path: `/c/${id}.json`, headers: { "if-none-match": `"${digest}"` } }, unexpected: expectStatus(304, "not 304") },
+    { name: "unknown permalink (404: KV read, nothing found)", ...sizes, request: { method: "GET", path: `/c/c_${"0".repeat(32)}.json` }, unexpected: expectStatus(404, "not 404") },
+    { name: "design description (JSON from memory, no KV)", ...sizes, request: { method: "GET", path: `/api/v1/designs/${design.id}` }, unexpected: expectStatus(200, "not 200") },
   ];
 }
 
@@ -117,8 +135,8 @@ function freshScenarios(options: LoadOptions, designs: CatalogEntry[]): Scenario
   });
 }
 
-function progress(scenario: Scenario, round: number, rounds: number): void {
-  process.stderr.write(`running: ${scenario.name}${rounds > 1 ? `, round ${round + 1} of ${rounds}` : ""}\n`);
+function progress(what: string): void {
+  process.stderr.write(`running: ${what}\n`);
 }
 
 function printChecks(list: Check[]): void {
@@ -151,7 +169,7 @@ async function main(): Promise<number> {
     if (!permalinkDesign) throw new Error(`no design ${options.permalinkDesign} in the catalog`);
     const unknown = options.designs.filter((d) => !catalog.some((c) => c.id === d));
     if (unknown.length > 0) throw new Error(`no design ${unknown.join(", ")} in the catalog`);
-    const id = await preparePermalink(worker.url, permalinkDesign);
+    const { id, digest } = await preparePermalink(worker.url, permalinkDesign);
     console.log(`permalink: /c/${id} (the ${permalinkDesign.id} example); Worker at ${worker.url}`);
     const idle = await idleCpuMsPerSecond(worker.processGroup, IDLE_MEASURE_MS);
     const processes: WorkerProcesses = { group: worker.processGroup, idleCpuMsPerSecond: idle ?? 0 };
@@ -162,8 +180,11 @@ async function main(): Promise<number> {
       `fresh ${options.freshConnections} connections, at most ${options.freshAmount} requests or ${options.freshDurationSeconds} s after ${options.freshWarmup} unmeasured, per design\n`);
 
     const fresh = options.designs.length > 0 ? catalog.filter((d) => options.designs.includes(d.id)) : catalog;
+    const reads = readScenarios(options, id);
+    const explained = options.explain ? explainScenarios(options, id, digest, permalinkDesign) : [];
+    const readResults = await runScenarios(worker.url, [...reads, ...explained], options.rounds, processes, progress);
     const results = [
-      ...await runScenarios(worker.url, readScenarios(options, id), options.rounds, processes, progress),
+      ...readResults.slice(0, reads.length),
       ...await runScenarios(worker.url, freshScenarios(options, fresh), 1, processes, progress),
     ];
 
@@ -175,6 +196,7 @@ async function main(): Promise<number> {
     const outcome = checks(results, COMPARISON);
     printChecks(outcome);
     const failed = outcome.some((c) => !c.passed);
+    if (options.explain) console.log(`\nwhat a cached permalink is made of (run interleaved with the routes above; CPU of the Worker and the load generator):\n${formatBreakdown(readResults, COMPARISON.trivial)}`);
     if (failed) {
       const unexpected = formatUnexpected(results);
       if (unexpected) console.log(`\nanswers behind the failures:\n${unexpected}`);

@@ -7,6 +7,8 @@ import { parseArgs } from "node:util";
 
 export interface LoadOptions {
   quick: boolean;
+  /** Also run routes that take a cached permalink apart (revalidation, a storage miss, JSON without storage). */
+  explain: boolean;
   /** Trivial route and cached permalinks. */
   connections: number;
   amount: number;
@@ -25,11 +27,11 @@ export interface LoadOptions {
   permalinkDesign: string;
 }
 
-type Sizes = Omit<LoadOptions, "quick" | "designs" | "permalinkDesign">;
+type Sizes = Omit<LoadOptions, "quick" | "explain" | "designs" | "permalinkDesign">;
 
 // Full: about 3 minutes on a 2-core machine (4 routes of at most 20 s, 15 designs of at most 5 s, warm-ups and start-up).
 const FULL = {
-  connections: 10, amount: 50_000, durationSeconds: 20, warmup: 200, rounds: 5,
+  connections: 10, amount: 50_000, durationSeconds: 20, warmup: 200, rounds: 10,
   freshConnections: 2, freshAmount: 200, freshDurationSeconds: 5, freshWarmup: 2,
 } satisfies Sizes;
 
@@ -58,6 +60,7 @@ const MAY_BE_ZERO = new Set<keyof Sizes>(["warmup", "freshWarmup"]);
 export const USAGE = `npm run load [-- options]
 
   --quick                  smoke run (small sizes), also LOAD_QUICK=1
+  --explain                also time what a cached permalink is made of (LOAD_EXPLAIN=1)
   --connections N          connections for the trivial route and cached permalinks (LOAD_CONNECTIONS, default ${FULL.connections})
   --amount N               at most N measured requests per such scenario (LOAD_AMOUNT, default ${FULL.amount})
   --duration S             and at most S seconds (LOAD_DURATION, default ${FULL.durationSeconds})
@@ -86,6 +89,7 @@ export function parseOptions(argv: string[], env: NodeJS.ProcessEnv): LoadOption
     options: {
       ...flags,
       quick: { type: "boolean" },
+      explain: { type: "boolean" },
       designs: { type: "string" },
       "permalink-design": { type: "string" },
       help: { type: "boolean" },
@@ -102,5 +106,6 @@ export function parseOptions(argv: string[], env: NodeJS.ProcessEnv): LoadOption
     if (typeof text === "string") sizes[key] = positive(`--${flag} (${variable})`, text, MAY_BE_ZERO.has(key));
   }
   const designs = (values.designs ?? env.LOAD_DESIGNS ?? "").split(",").map((d) => d.trim()).filter((d) => d !== "");
-  return { quick, ...sizes, designs, permalinkDesign: values["permalink-design"] ?? env.LOAD_PERMALINK_DESIGN ?? "two-means" };
+  const explain = values.explain === true || env.LOAD_EXPLAIN === "1";
+  return { quick, explain, ...sizes, designs, permalinkDesign: values["permalink-design"] ?? env.LOAD_PERMALINK_DESIGN ?? "two-means" };
 }

@@ -120,6 +120,25 @@ export function checks(results: ScenarioResult[], names: Comparison): Check[] {
   ];
 }
 
+/**
+ * Routes beside the trivial one, with their throughput ratio and the CPU each
+ * answer costs beyond a trivial answer (Worker and load generator): what the
+ * parts of a cached permalink cost.
+ */
+export function formatBreakdown(results: ScenarioResult[], trivialName: string): string {
+  const trivial = find(results, trivialName);
+  const cost = (r: ScenarioResult): number => (r.workerCpuMsPerRequest ?? Number.NaN) + r.generatorCpuMsPerRequest;
+  const rows = results.map((r) => [
+    r.name.padEnd(58),
+    r.requestsPerSecond.toFixed(0).padStart(7),
+    (r.requestsPerSecond / trivial.requestsPerSecond).toFixed(2).padStart(9),
+    cost(r).toFixed(2).padStart(12),
+    (cost(r) - cost(trivial)).toFixed(2).padStart(13),
+    String(r.unexpected).padStart(11),
+  ].join(" "));
+  return [`${"route".padEnd(58)}   req/s  /trivial  CPU ms/req  over trivial  unexpected`, ...rows].join("\n");
+}
+
 /** The status counts and first unexpected answers of every scenario that had any, for a failed run. */
 export function formatUnexpected(results: ScenarioResult[]): string {
   return results

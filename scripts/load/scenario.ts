@@ -185,19 +185,23 @@ export function stopScenarios(): void {
 
 /**
  * Warms every scenario up, then runs them in `rounds` rounds, each round a
- * 1/rounds slice (in requests and in time) of every scenario in turn.
- * `onSlice` is told each slice before it starts.
+ * 1/rounds slice (in requests and in time) of every scenario in turn. Results
+ * come in the order of `scenarios`.
  */
-export async function runScenarios(url: string, scenarios: Scenario[], rounds: number, worker: WorkerProcesses, onSlice: (scenario: Scenario, round: number, rounds: number) => void = () => {}): Promise<ScenarioResult[]> {
+export async function runScenarios(url: string, scenarios: Scenario[], rounds: number, worker: WorkerProcesses, onProgress: (what: string) => void = () => {}): Promise<ScenarioResult[]> {
   for (const scenario of scenarios) {
     if (stopped) throw new LoadInterrupted();
     if (scenario.warmup > 0) await drive(url, scenario, scenario.warmup, scenario.durationSeconds, emptyTally());
   }
   const tallies = scenarios.map(emptyTally);
   for (let round = 0; round < rounds; round++) {
-    for (const [i, scenario] of scenarios.entries()) {
+    // Each round starts one scenario further on, so that none always follows the same one (a collection it left behind, say).
+    for (let k = 0; k < scenarios.length; k++) {
+      const i = (round + k) % scenarios.length;
+      const scenario = scenarios[i]!;
       if (stopped) throw new LoadInterrupted();
-      onSlice(scenario, round, rounds);
+      if (rounds === 1) onProgress(scenario.name);
+      else if (k === 0) onProgress(`round ${round + 1} of ${rounds} of ${scenarios.map((s) => s.name).join("; ")}`);
       // The first slices take the remainder, so the slices add up to the scenario's amount.
       const amount = Math.floor(scenario.amount / rounds) + (round < scenario.amount % rounds ? 1 : 0);
       if (amount > 0) await measure(url, scenario, amount, scenario.durationSeconds / rounds, worker, tallies[i]!);
