@@ -109,15 +109,18 @@ function inferenceRow(rule: TwoStageRule, outcome: TwoStageOutcome, p0: number, 
  * the budget, so no input is refused.
  *
  * Constants from `npm run bench designs` (the two-stage-inference heaviest
- * cases, 301 outcomes of 300 patients, median CPU over 3 runs while other
- * work shared the machine: 60 to 75 ms): Brent's method took at most 27
- * evaluations for one end of an interval (about 18 on average) over 150
- * random designs with levels up to 0.999, so 30 are counted; an evaluation
- * took about 15 ns a patient and a weight about 25 ns; 20 and 30 ns are
- * taken, and the safety factor covers slower runs.
+ * cases, 301 outcomes of 300 patients, and the example, 30 outcomes of 29;
+ * median CPU over 3 runs while other work shared the machine): over 150
+ * random designs with levels up to 0.999, Brent's method took at most 18.5
+ * evaluations an interval end on average over a design's outcomes (27 for a
+ * single end), so 25 are counted. An evaluation took about 2.8 µs plus 9 ns
+ * a patient (its two binomial distributions start from log-gamma values),
+ * a weight about 25 ns; 3.5 µs, 12 ns and 30 ns are taken, and the safety
+ * factor covers slower runs.
  */
-const EVALUATIONS_PER_INTERVAL_END = 30;
-const MS_PER_PATIENT_EVALUATION = 2e-5;
+const EVALUATIONS_PER_INTERVAL_END = 25;
+const MS_PER_EVALUATION = 3.5e-3;
+const MS_PER_PATIENT_EVALUATION = 1.2e-5;
 const MS_PER_WEIGHT = 3e-5;
 const FIXED_MS = 3;
 const SAFETY = 1.5;
@@ -127,7 +130,7 @@ export function costTwoStageInference(input: TwoStageInferenceInput): WorkEstima
   const evaluations = outcomes * (2 * EVALUATIONS_PER_INTERVAL_END + 1);
   const weights = outcomes * (Math.min(input.n1, input.n - input.n1) + 1);
   return {
-    milliseconds: SAFETY * (FIXED_MS + evaluations * (input.n + 1) * MS_PER_PATIENT_EVALUATION + weights * MS_PER_WEIGHT),
+    milliseconds: SAFETY * (FIXED_MS + evaluations * (MS_PER_EVALUATION + (input.n + 1) * MS_PER_PATIENT_EVALUATION) + weights * MS_PER_WEIGHT),
     breakdown: `${outcomes} possible outcomes × (2 interval ends × up to ${EVALUATIONS_PER_INTERVAL_END} evaluations + 1 p-value) over ${input.n} patients`,
     reduce: ["n"],
   };
