@@ -48,6 +48,7 @@ import {
 } from "./shared/bayesianRules.js";
 import { type ThresholdSearch, searchThresholds, thresholdSearchWork } from "./shared/predictiveSearch.js";
 import { designSection, protocolSection } from "./shared/reportSections.js";
+import { workEstimate } from "./shared/workEstimate.js";
 
 export const MAX_PATIENTS = 300;
 const MAX_RATES = 30;
@@ -274,36 +275,28 @@ function predictiveThresholds(input: BayesianMonitoringInput, checks: number[]):
  * threshold search over 300 patients checked one by one counts 46.9 million
  * steps and took 79 ms, the posterior rule 5.9 million in 16 ms, 1.7 to
  * 2.6 ns a step; a posterior tail probability alone took 0.3 to 1.4 µs.
- * 2.7 ns and 2 µs are taken, and the safety factor covers slower runs.
+ * 2.7 ns and 2 µs are taken.
  */
 const MS_PER_STEP = 2.7e-6;
 const MS_PER_POSTERIOR_PROBABILITY = 0.002;
-const FIXED_MS = 3;
-const SAFETY = 1.5;
 
 export function costBayesianMonitoring(input: BayesianMonitoringInput): WorkEstimate {
   const maxN = input.maxN;
   const rates = CURVE_RATES.length + rateGrid(input).length;
-  let recursions = rates;
-  let tables = 0;
-  // The boundary scan and the feasibility checks (bisections up to SEARCH_LIMIT patients).
-  let posteriorProbabilities = 2 * (maxN + 1) + 40;
-  if (input.rule === "predictive") {
-    tables += 1;
-    if (input.thresholds === "search") {
-      const search = thresholdSearchWork(maxN);
-      recursions += search.recursions;
-      tables += search.tables;
-      posteriorProbabilities += search.posteriorProbabilities;
-    }
-  }
-  const steps = (recursions + tables) * (maxN * (maxN + 3)) / 2;
-  return {
-    milliseconds: SAFETY * (FIXED_MS + steps * MS_PER_STEP + posteriorProbabilities * MS_PER_POSTERIOR_PROBABILITY),
-    breakdown: `${recursions + tables} exact recursions over up to ${maxN} patients (${rates} true rates` +
-      (input.thresholds === "search" ? `, ${thresholdSearchWork(maxN).recursions / 2} threshold pairs at p0 and p1` : "") + ")",
-    reduce: ["maxN", "trueRates"],
-  };
+  const search = input.rule === "predictive" && input.thresholds === "search" ? thresholdSearchWork(maxN) : null;
+  const recursions = rates + (search?.recursions ?? 0);
+  const tables = (input.rule === "predictive" ? 1 : 0) + (search?.tables ?? 0);
+  // The boundary scan or final count, and the feasibility checks (bisections up to SEARCH_LIMIT patients).
+  const posteriorProbabilities = 2 * (maxN + 1) + 40 + (search?.posteriorProbabilities ?? 0);
+  return workEstimate([
+    {
+      count: ((recursions + tables) * maxN * (maxN + 3)) / 2,
+      msEach: MS_PER_STEP,
+      what: `steps of ${recursions + tables} exact recursions over up to ${maxN} patients (${rates} true rates` +
+        (search ? `, ${search.recursions / 2} threshold pairs at p0 and p1` : "") + ")",
+    },
+    { count: posteriorProbabilities, msEach: MS_PER_POSTERIOR_PROBABILITY, what: "posterior tail probabilities" },
+  ], ["maxN", "trueRates"]);
 }
 
 export function computeBayesianMonitoring(input: BayesianMonitoringInput): BayesianMonitoringResult {

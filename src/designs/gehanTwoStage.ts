@@ -23,6 +23,7 @@ import type { Section } from "../report/document.js";
 import { betaQuantile } from "../stats/beta.js";
 import { binomialPmfArray } from "../stats/binomial.js";
 import { designSection, protocolSection, responseRateCurveSection } from "./shared/reportSections.js";
+import { workEstimate } from "./shared/workEstimate.js";
 
 /** Stage-1 sizes beyond this are refused; the input bounds (p1 ≥ 0.01, beta ≥ 0.001) need at most 688. */
 export const GEHAN_MAX_N1 = 2000;
@@ -82,23 +83,20 @@ export function rateForStandardError(input: GehanTwoStageInput, x1: number, n1: 
  *
  * Constants from `npm run bench designs` (the gehan-two-stage heaviest case,
  * 688 rows with a 0.9999 confidence level, median CPU over 3 runs while other
- * work shared the machine): 16 ms, 23 µs a row (a beta quantile alone took 2
- * to 11 µs); 30 µs is taken, and the safety factor covers slower runs.
+ * work shared the machine): 9 to 16 ms, up to 23 µs a row (a beta quantile
+ * alone took 2 to 11 µs); 30 µs is taken.
  */
 const MS_PER_QUANTILE_ROW = 0.03;
 const MS_PER_PLAIN_ROW = 0.001;
-const FIXED_MS = 2;
-const SAFETY = 1.5;
 
 export function costGehanTwoStage(input: GehanTwoStageInput): WorkEstimate {
   const rows = gehanStageOneSize(input.p1, input.beta) ?? 0;
   const quantiles = input.rateForStandardError === "upper-confidence-limit";
-  return {
-    milliseconds: SAFETY * (FIXED_MS + rows * (quantiles ? MS_PER_QUANTILE_ROW : MS_PER_PLAIN_ROW)),
-    breakdown: `${rows} stage-2 sizes, one per possible number of stage-1 responses${quantiles ? ", each from an exact upper confidence limit" : ""}`,
-    // Fewer rows need a higher p1 or a higher beta: no field falls to lower the work.
-    reduce: [],
-  };
+  return workEstimate([{
+    count: rows,
+    msEach: quantiles ? MS_PER_QUANTILE_ROW : MS_PER_PLAIN_ROW,
+    what: `stage-2 sizes, one per possible number of stage-1 responses${quantiles ? ", each from an exact upper confidence limit" : ""}`,
+  }], []); // Fewer rows need a higher p1 or a higher beta: no field falls to lower the work.
 }
 
 export function computeGehanTwoStage(input: GehanTwoStageInput): GehanTwoStageResult {

@@ -27,6 +27,7 @@ import {
 } from "./shared/twoStage.js";
 import { describeTwoStage, twoStageChart, twoStageRuleTable } from "./shared/twoStageReport.js";
 import { designSection, protocolSection } from "./shared/reportSections.js";
+import { workEstimate } from "./shared/workEstimate.js";
 
 const SIMON_MAX_N = TWO_STAGE_MAX_N;
 
@@ -99,21 +100,19 @@ function smallestWorkingMaxN(input: SimonTwoStageInput): number | null {
  * SIMON_MAX_N, so the count is of a search up to maxN when a design within
  * maxN is certain (surelyFindsDesign), up to SIMON_MAX_N otherwise, and none
  * when the most powerful test on SIMON_MAX_N patients cannot reach the power
- * (both searches then stop before they start). An evaluation costs one
- * binomial distribution of each stage per tabulated rate.
+ * (both searches then stop before they start). The search also tabulates 4
+ * binomial distributions a total; an evaluation costs one distribution of
+ * each stage per rate.
  *
  * Constants from `npm run bench designs` (the simon-two-stage heaviest cases,
  * median CPU over 3 runs while other work shared the machine): the search up
  * to 300 whose only design has 300 patients sums 0.045·300⁴ terms in 550 ms,
  * 1.5 ns a term (an empty search up to 299 continued to 300, 0.048·300⁴
- * terms, took 0.6 to 0.9 s); 1.8 ns is taken, and the safety factor covers
- * slower runs. An evaluation at one rate took under 5 µs. The fixed part
- * covers the summaries and curves.
+ * terms, took 0.6 to 0.9 s); 1.8 ns is taken. A pair of distributions of 300
+ * patients, or an evaluation at one rate, took under 10 µs.
  */
-const SEARCH_MS_PER_TERM = 1.8e-6;
-const EVALUATION_MS_PER_RATE = 0.01;
-const FIXED_MS = 5;
-const SAFETY = 1.5;
+const MS_PER_SEARCH_TERM = 1.8e-6;
+const MS_PER_DISTRIBUTION_PAIR = 0.01;
 
 /** The largest total the searches of this input may visit: maxN, SIMON_MAX_N, or 0 when none runs. */
 function searchReach(input: SimonTwoStageInput): number {
@@ -125,19 +124,19 @@ export function costSimonTwoStage(input: SimonTwoStageInput): WorkEstimate {
   if (input.mode === "evaluate") {
     // Both summary rates, the chart's grid and the requested rates.
     const rates = 2 + rateGrid(input.p0, input.p1).length + input.trueRates.length;
-    return {
-      milliseconds: SAFETY * (FIXED_MS + rates * EVALUATION_MS_PER_RATE),
-      breakdown: `the given design evaluated at ${rates} response rates`,
-      reduce: ["trueRates"],
-    };
+    return workEstimate([{ count: rates, msEach: MS_PER_DISTRIBUTION_PAIR, what: "evaluations of the given design at a response rate" }], ["trueRates"]);
   }
   const reach = searchReach(input);
-  const terms = searchTermsBound(reach);
-  const breakdown = reach === 0
-    ? `no search: no rule on ${SIMON_MAX_N} patients can reach the power`
-    : `a search of every stage-1 size, stopping count and total up to ${reach} patients, at most ${Math.round(terms).toLocaleString("en-US")} binomial terms` +
-      (reach > input.maxN ? ` (up to ${SIMON_MAX_N} because no design within maxN = ${input.maxN} is certain, and the smallest maxN that works would be looked for)` : "");
-  return { milliseconds: SAFETY * (FIXED_MS + terms * SEARCH_MS_PER_TERM), breakdown, reduce: ["maxN"] };
+  if (reach === 0) {
+    return workEstimate([{ count: 2, msEach: MS_PER_DISTRIBUTION_PAIR, what: `most powerful tests, which show that no rule on ${SIMON_MAX_N} patients reaches the power: no search` }], ["maxN"]);
+  }
+  const scope = reach > input.maxN
+    ? `up to ${SIMON_MAX_N} patients, since no design within maxN = ${input.maxN} is certain and the smallest maxN that works would be looked for`
+    : `up to ${reach} patients`;
+  return workEstimate([
+    { count: searchTermsBound(reach), msEach: MS_PER_SEARCH_TERM, what: `binomial terms at most, searching every stage-1 size, stopping count and total ${scope}` },
+    { count: 4 * reach, msEach: MS_PER_DISTRIBUTION_PAIR / 2, what: "binomial distributions tabulated for the search" },
+  ], ["maxN"]);
 }
 
 export function computeSimonTwoStage(input: SimonTwoStageInput): SimonTwoStageResult {

@@ -23,6 +23,7 @@ import { binomialUpperTails as upperTails, rateGrid } from "./shared/twoStage.js
 import { smallestSizeForPower } from "./shared/powerCeiling.js";
 import { type SingleStageRule, singleStageRuleAt } from "./shared/singleStageRule.js";
 import { designSection, protocolSection, responseRateCurveSection } from "./shared/reportSections.js";
+import { formatCount, workEstimate } from "./shared/workEstimate.js";
 
 /** Sizes beyond this are not searched (p0 and p1 a few points apart need thousands). */
 export const SINGLE_STAGE_MAX_N = 5000;
@@ -51,12 +52,9 @@ export interface SingleStageBinomialResult extends SingleStageRule {
  * cases, median CPU over 3 runs while other work shared the machine): the
  * scan from n = 2,232 to 4,123 sums 12.8 million terms in 156 ms and the one
  * from 3,979 to 4,990 9.9 million in 112 ms, 11 to 12 ns a term; 12.5 ns is
- * taken. The heaviest inputs found reach only half the counted maximum, so
- * the safety factor for slower runs is smaller than the other designs'.
+ * taken. The heaviest inputs found reach half the counted maximum.
  */
 const MS_PER_TERM = 12.5e-6;
-const FIXED_MS = 5;
-const SAFETY = 1.25;
 const WORST_CASE_TERMS = (() => {
   let scan = 0;
   for (let n = 1; n <= SINGLE_STAGE_MAX_N; n++) scan += 2 * (n + 1);
@@ -64,11 +62,9 @@ const WORST_CASE_TERMS = (() => {
 })();
 
 export function costSingleStageBinomial(): WorkEstimate {
-  return {
-    milliseconds: SAFETY * (FIXED_MS + WORST_CASE_TERMS * MS_PER_TERM),
-    breakdown: `at most ${SINGLE_STAGE_MAX_N.toLocaleString("en-US")} trial sizes scanned, ${Math.round(WORST_CASE_TERMS).toLocaleString("en-US")} binomial terms at most`,
-    reduce: [],
-  };
+  return workEstimate([
+    { count: WORST_CASE_TERMS, msEach: MS_PER_TERM, what: `binomial terms at most, every size up to ${formatCount(SINGLE_STAGE_MAX_N)} scanned` },
+  ], []);
 }
 
 export function computeSingleStageBinomial(input: SingleStageBinomialInput): SingleStageBinomialResult {

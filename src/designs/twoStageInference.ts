@@ -26,6 +26,7 @@ import { TWO_STAGE_MAX_N, type TwoStageRule, evaluateTwoStage } from "./shared/t
 import { probabilityField } from "./shared/fields.js";
 import { describeTwoStage, twoStageRuleTable } from "./shared/twoStageReport.js";
 import { protocolSection } from "./shared/reportSections.js";
+import { workEstimate } from "./shared/workEstimate.js";
 
 const count = (description: string) => z.number().int().min(0).max(TWO_STAGE_MAX_N).describe(description);
 
@@ -115,25 +116,23 @@ function inferenceRow(rule: TwoStageRule, outcome: TwoStageOutcome, p0: number, 
  * evaluations an interval end on average over a design's outcomes (27 for a
  * single end), so 25 are counted. An evaluation took about 2.8 µs plus 9 ns
  * a patient (its two binomial distributions start from log-gamma values),
- * a weight about 25 ns; 3.5 µs, 12 ns and 30 ns are taken, and the safety
- * factor covers slower runs.
+ * a weight about 25 ns; 3.5 µs, 12 ns and 30 ns are taken.
  */
 const EVALUATIONS_PER_INTERVAL_END = 25;
 const MS_PER_EVALUATION = 3.5e-3;
 const MS_PER_PATIENT_EVALUATION = 1.2e-5;
 const MS_PER_WEIGHT = 3e-5;
-const FIXED_MS = 3;
-const SAFETY = 1.5;
 
 export function costTwoStageInference(input: TwoStageInferenceInput): WorkEstimate {
   const outcomes = input.n + 1;
-  const evaluations = outcomes * (2 * EVALUATIONS_PER_INTERVAL_END + 1);
-  const weights = outcomes * (Math.min(input.n1, input.n - input.n1) + 1);
-  return {
-    milliseconds: SAFETY * (FIXED_MS + evaluations * (MS_PER_EVALUATION + (input.n + 1) * MS_PER_PATIENT_EVALUATION) + weights * MS_PER_WEIGHT),
-    breakdown: `${outcomes} possible outcomes × (2 interval ends × up to ${EVALUATIONS_PER_INTERVAL_END} evaluations + 1 p-value) over ${input.n} patients`,
-    reduce: ["n"],
-  };
+  return workEstimate([
+    {
+      count: outcomes * (2 * EVALUATIONS_PER_INTERVAL_END + 1),
+      msEach: MS_PER_EVALUATION + (input.n + 1) * MS_PER_PATIENT_EVALUATION,
+      what: `evaluations of the stage-wise tail over ${input.n} patients (${outcomes} possible outcomes × (2 interval ends × up to ${EVALUATIONS_PER_INTERVAL_END} + 1 p-value))`,
+    },
+    { count: outcomes * (Math.min(input.n1, input.n - input.n1) + 1), msEach: MS_PER_WEIGHT, what: "weights of the unbiased estimates" },
+  ], ["n"]);
 }
 
 export function computeTwoStageInference(input: TwoStageInferenceInput): TwoStageInferenceResult {

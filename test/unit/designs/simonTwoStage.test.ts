@@ -261,6 +261,7 @@ describe("compute budget estimate", () => {
     // The smallest design has 25 patients (Simon 1989 table 1, from memory): an empty search up to 24 goes on to 300.
     expect(cost({ p0: 0.1, p1: 0.3, maxN: 24 }).breakdown).toContain("up to 300 patients");
     expect(cost({ p0: 0.5, p1: 0.55, alpha: 0.01, power: 0.99, maxN: 100 }).breakdown).toContain("no search");
+    expect(cost({ p0: 0.5, p1: 0.55, alpha: 0.01, power: 0.99, maxN: 100 }).milliseconds).toBeLessThan(cost({ p0: 0.1, p1: 0.3, maxN: 60 }).milliseconds);
     expect(cost({ p0: 0.1, p1: 0.3, maxN: 24 }).milliseconds).toBeGreaterThan(cost({ p0: 0.1, p1: 0.3, maxN: 60 }).milliseconds);
   });
 });
