@@ -45,9 +45,7 @@ interface CatalogEntry {
   links: { calculations: string };
 }
 
-type Headers = Record<string, string | string[]>;
-
-function header(headers: Headers, name: string): string | undefined {
+function header(headers: Record<string, string | string[]>, name: string): string | undefined {
   const key = Object.keys(headers).find((k) => k.toLowerCase() === name.toLowerCase());
   const value = key === undefined ? undefined : headers[key];
   return Array.isArray(value) ? value[0] : value;
@@ -86,9 +84,14 @@ async function preparePermalink(url: string, design: CatalogEntry): Promise<{ id
 
 const COMPARISON: Comparison = { trivial: "trivial route", html: "cached permalink, HTML", json: "cached permalink, JSON", pdf: "cached permalink, PDF" };
 
+/** Sizes of every scenario compared with the trivial route. */
+function readSizes(options: LoadOptions): Pick<Scenario, "connections" | "amount" | "durationSeconds" | "warmup"> {
+  return { connections: options.connections, amount: options.amount, durationSeconds: options.durationSeconds, warmup: options.warmup };
+}
+
 /** The trivial route and the cached permalinks, compared with one another. */
 function readScenarios(options: LoadOptions, id: string): Scenario[] {
-  const sizes = { connections: options.connections, amount: options.amount, durationSeconds: options.durationSeconds, warmup: options.warmup };
+  const sizes = readSizes(options);
   const ok = expectStatus(200, "not 200");
   return [
     { name: COMPARISON.trivial, ...sizes, request: { method: "GET", path: "/api/v1/health" }, unexpected: ok },
@@ -108,7 +111,7 @@ function readScenarios(options: LoadOptions, id: string): Scenario[] {
  * without storage (the design's description).
  */
 function explainScenarios(options: LoadOptions, id: string, digest: string, design: CatalogEntry): Scenario[] {
-  const sizes = { connections: options.connections, amount: options.amount, durationSeconds: options.durationSeconds, warmup: options.warmup };
+  const sizes = readSizes(options);
   return [
     { name: "permalink JSON revalidated (304: KV read, digest, no body)", ...sizes, request: { method: "GET", path: `/c/${id}.json`, headers: { "if-none-match": `"${digest}"` } }, unexpected: expectStatus(304, "not 304") },
     { name: "unknown permalink (404: KV read, nothing found)", ...sizes, request: { method: "GET", path: `/c/c_${"0".repeat(32)}.json` }, unexpected: expectStatus(404, "not 404") },

@@ -37,7 +37,7 @@ const COLUMNS: Array<[heading: string, width: number, cell: (r: ScenarioResult) 
   ["errors", 7, (r) => String(r.errors)],
   ["timeouts", 9, (r) => String(r.timeouts)],
   ["kB/answer", 10, (r) => (r.bytesPerResponse / 1024).toFixed(1)],
-  ["worker CPU ms/req", 18, (r) => (r.workerCpuMsPerRequest === undefined ? "n/a" : r.workerCpuMsPerRequest.toFixed(2))],
+  ["Worker CPU ms/req", 18, (r) => (r.workerCpuMsPerRequest === undefined ? "n/a" : r.workerCpuMsPerRequest.toFixed(2))],
   ["load gen. CPU ms/req", 21, (r) => r.generatorCpuMsPerRequest.toFixed(2)],
 ];
 
