@@ -163,10 +163,10 @@ function criticalValue(input: TwoMeansInput, df: number): number {
 
 /**
  * CPU of one exact equivalence power: a quadrature of at most about 800
- * integrand evaluations, measured at 0.55 ms at most from 2 to 2 × 10⁶ degrees
- * of freedom; the heaviest two-means cases of `npm run bench designs` (an
- * equivalence search at 10 experimental per control participant) took about
- * 0.4 ms an evaluation.
+ * integrand evaluations, timed alone at up to 0.55 ms from 2 to 2 × 10⁶
+ * degrees of freedom; in the heaviest equivalence case of `npm run bench
+ * designs` (10 experimental per control participant) an evaluation took
+ * about 0.2 ms CPU.
  */
 const TOST_POWER_MS = 0.6;
 

@@ -11,14 +11,14 @@
  * 0.9999: at most 20 passes of the grid from look to look and 121 crossing sums
  * per look without futility, 34 and 741 with it; observed looks take fewer, as
  * the drift is kept. The costs per look are the heaviest group-sequential cases
- * of `npm run bench designs` (median CPU over 3 runs) divided by their looks:
- * 3.6 to 4.7 ms a look without futility and 6.0 to 6.9 ms with it, while other
- * work shared the machine.
+ * of `npm run bench designs` divided by their looks: 2 to 4.7 ms CPU a look
+ * without futility and 3.8 to 6.9 ms with it while other work shared the
+ * machine (wall-clock medians reached twice that under the heaviest load).
  */
 import type { WorkPart } from "./workEstimate.js";
 
-const MS_PER_LOOK = 5;
-const MS_PER_LOOK_WITH_FUTILITY = 7.5;
+const MS_PER_LOOK = 5.5;
+const MS_PER_LOOK_WITH_FUTILITY = 8;
 
 /** Boundaries at `looks` looks (planned or observed), with or without futility boundaries. */
 export function groupSequentialWork(looks: number, futility: boolean, which = "looks"): WorkPart {

@@ -20,15 +20,15 @@ import { formatCount } from "./workEstimate.js";
 /**
  * CPU of one power evaluation. The noncentral t power (a t quantile and the
  * AS 243 series, both tails for a two-sided test) took 1 to 34 µs from 2 to
- * 10⁶ degrees of freedom when timed alone, but up to 185 µs within the
- * searches of the heaviest crossover-2x2 and factorial-2x2 cases of `npm run
- * bench designs` while other work shared the machine (the t quantile at 2 to
- * 10 degrees of freedom alone takes 40 to 70 µs); the normal power took up to
- * 10 µs. These designs' heaviest cases take a few milliseconds, so the
- * generous figures refuse nothing.
+ * 10⁶ degrees of freedom, timed alone (the t quantile at 2 to 10 degrees of
+ * freedom is the slowest part); within the searches of the heaviest
+ * crossover-2x2 and factorial-2x2 cases of `npm run bench designs` an
+ * evaluation took 5 to 25 µs. The normal power took up to 10 µs. These
+ * designs' heaviest cases take a few milliseconds, far below the budget, so
+ * the margins are generous.
  */
-export const T_POWER_MS = 0.1;
-export const NORMAL_POWER_MS = 0.015;
+export const T_POWER_MS = 0.05;
+export const NORMAL_POWER_MS = 0.01;
 
 export const POWER_CURVE_EVALUATIONS = CURVE_POINTS + 1;
 export const EFFECT_CURVE_EVALUATIONS = CURVE_POINTS;

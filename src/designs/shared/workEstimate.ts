@@ -1,7 +1,7 @@
 /**
  * A design's work estimate (Design.cost) assembled from counted parts: each
- * part is a number of like operations (power evaluations, recursion looks,
- * table cells) times the CPU they were measured to take on the heaviest cases
+ * part is a number of like operations (power evaluations, looks of a
+ * recursion, terms of an enumeration) times the CPU they were measured to take on the heaviest cases
  * of `npm run bench designs`; their sum and a fixed cost are multiplied by one
  * safety factor.
  */
@@ -16,8 +16,11 @@ export const SAFETY_FACTOR = 1.5;
 
 /**
  * What any calculation costs beyond its counted parts: building the result,
- * and running code a fresh Worker has not compiled yet (a first run took up to
- * 3.6 ms where later runs of the same calculation took 0.1 ms).
+ * and code paths a running Worker has not yet taken for this kind of input (a
+ * first run took up to 3.6 ms where later runs of the same calculation took
+ * 0.1 ms). The very first calculation of a design in a fresh Worker also
+ * compiles its code, 20 to 150 ms here: a one-off that the budget's margin
+ * below the Worker's CPU limit absorbs, not part of every estimate.
  */
 export const FIXED_MS = 4;
 

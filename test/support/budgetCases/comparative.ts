@@ -27,7 +27,7 @@ export const comparativeCases: BudgetCaseTable = {
     heaviest: [
       // The target is first reached near 250 per arm, so the scan runs to its bound of 500.
       { name: "Fisher's exact scan reaching the target near 250 per arm", inputs: { method: "fisher-exact", p1: 0.3, p2: 0.42, power: 0.8 } },
-      { name: "Fisher's exact scan to 500 per arm that finds no size", inputs: { method: "fisher-exact", p1: 0.5, p2: 0.5005, power: 0.99 } },
+      { name: "Fisher's exact scan first reaching the target at 489 per arm", inputs: { method: "fisher-exact", p1: 0.5, p2: 0.605, power: 0.9 } },
       { name: "Fisher's exact power at 1,000 per arm", inputs: { method: "fisher-exact", solveFor: "power", p1: 0.5, p2: 0.52, n1: 1000, n2: 1000, alpha: 0.000001 } },
     ],
     overBudget: [],
