@@ -30,7 +30,7 @@
  *   fit is shortened.
  */
 import { z } from "zod";
-import type { Design } from "./design.js";
+import type { Design, WorkEstimate } from "./design.js";
 import type { Section } from "../report/document.js";
 import { betaSurvival } from "../stats/beta.js";
 import { isotonicRegression } from "../stats/isotonic.js";
@@ -40,11 +40,9 @@ import {
   observedCounts, observedDataField, operatingCharacteristicsSection, scheduleFacts, simulatePlan, simulationFields, simulationProtocolText,
   treatCohort, type TrialEnd, useField,
 } from "./shared/doseFinding.js";
+import { BOIN_NEXT_DOSE_MS, boinSimulationWork, simulationReduce, simulationSize } from "./shared/doseFindingCost.js";
 import { LIU_YUAN_2015 } from "./shared/doseFindingReferences.js";
 import { designSection, protocolSection } from "./shared/reportSections.js";
-
-/** Trials × scenarios × decisions × doses one request may simulate (a few seconds on one core). */
-export const BOIN_WORK_LIMIT = 30_000_000;
 
 const schema = z
   .strictObject({
@@ -246,7 +244,13 @@ export function computeBoin(input: BoinInput): BoinResult {
     return { boundaries, decisionTable: table.slice(0, input.maxSampleSize), nextDose: boinNextDose(input, table), operatingCharacteristics: null };
   }
   const decisionTable = boinDecisionTable(input, input.maxSampleSize);
-  return { boundaries, decisionTable, nextDose: null, operatingCharacteristics: simulatePlan("BOIN", input, BOIN_WORK_LIMIT, () => boinTrialRunner(input)) };
+  return { boundaries, decisionTable, nextDose: null, operatingCharacteristics: simulatePlan(input, boinTrialRunner(input)) };
+}
+
+/** A next-dose decision costs one decision table; a plan, its simulated trials (shared/doseFindingCost.ts). */
+export function costBoin(input: BoinInput): WorkEstimate {
+  if (input.use === "next-dose") return { milliseconds: BOIN_NEXT_DOSE_MS, breakdown: "one decision table and one isotonic regression", reduce: [] };
+  return { ...boinSimulationWork(simulationSize(input)), reduce: simulationReduce(input) };
 }
 
 const f3 = (x: number): string => x.toFixed(3);
@@ -372,6 +376,7 @@ export const boin: Design<BoinInput, BoinResult> = {
     seed: 20261201,
   },
   compute: computeBoin,
+  cost: costBoin,
   question: (input) => input.use === "next-dose"
     ? `With the data so far at ${input.doses.join(", ")}, which dose should the next cohort of ${input.cohortSize} receive under the BOIN design targeting a DLT rate of ${input.target}?`
     : `Under the BOIN design targeting a DLT rate of ${input.target} with at most ${input.maxSampleSize} patients, how often is each dose selected as the MTD, and how many patients are treated at each dose, under each scenario?`,

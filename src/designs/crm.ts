@@ -30,7 +30,7 @@
  *   they are p_i at the 95% and 5% posterior quantiles of a.
  */
 import { z } from "zod";
-import type { Design } from "./design.js";
+import type { Design, WorkEstimate } from "./design.js";
 import type { Section } from "../report/document.js";
 import type { RandomSource } from "../stats/random.js";
 import {
@@ -40,16 +40,9 @@ import {
 import { LEE_CHEUNG_2009, OQUIGLEY_PEPE_FISHER_1990 } from "./shared/doseFindingReferences.js";
 import { type CrmModel, calibrateSkeleton, doseConstants, doseProbability } from "./shared/crmModel.js";
 import { checkCrmSkeleton } from "./shared/crmSkeletonChecks.js";
+import { CRM_NEXT_DOSE_MS, crmSimulationWork, simulationReduce, simulationSize } from "./shared/doseFindingCost.js";
 import { CrmFastPosterior, type CrmPosteriorSummary, crmPosterior } from "./shared/crmPosterior.js";
 import { designSection, protocolSection } from "./shared/reportSections.js";
-
-/**
- * Trials × scenarios × decisions × doses one request may simulate. The costliest
- * plan at the limit (every dose safe, so every trial runs to its maximum with a
- * posterior at each decision) takes about 1.5 s on one core (bench/crm.bench.ts),
- * inside a Worker request; 2,000,000 took about 6 s.
- */
-export const CRM_WORK_LIMIT = 500_000;
 
 const schema = z
   .strictObject({
@@ -172,7 +165,14 @@ export function computeCrm(input: CrmInput): CrmResult {
     logisticDoseLabels: input.model === "logistic" ? Array.from(doseConstants(model)) : null,
   };
   if (input.use === "next-dose") return { ...base, nextDose: crmNextDose(input, model), operatingCharacteristics: null };
-  return { ...base, nextDose: null, operatingCharacteristics: simulatePlan("CRM", input, CRM_WORK_LIMIT, () => crmTrialRunner(input, model)) };
+  return { ...base, nextDose: null, operatingCharacteristics: simulatePlan(input, crmTrialRunner(input, model)) };
+}
+
+/** A next-dose decision costs one posterior; a plan, its simulated decisions (shared/doseFindingCost.ts). */
+export function costCrm(input: CrmInput): WorkEstimate {
+  if (input.use === "next-dose") return { milliseconds: CRM_NEXT_DOSE_MS, breakdown: "one posterior by adaptive quadrature, with credible limits", reduce: [] };
+  const work = crmSimulationWork(simulationSize(input), { kind: input.model, intercept: input.logisticIntercept, priorVariance: input.priorVariance });
+  return { ...work, reduce: simulationReduce(input) };
 }
 
 const f3 = (x: number): string => x.toFixed(3);
@@ -340,6 +340,7 @@ export const crm: Design<CrmInput, CrmResult> = {
     seed: 20261201,
   },
   compute: computeCrm,
+  cost: costCrm,
   question: (input) => input.use === "next-dose"
     ? `With the data so far at ${input.doses.join(", ")}, which dose should the next cohort of ${input.cohortSize} receive under the CRM targeting a DLT rate of ${input.target}, and what are the posterior DLT probabilities?`
     : `Under the CRM targeting a DLT rate of ${input.target} with at most ${input.maxSampleSize} patients, how often is each dose selected as the MTD, and how many patients are treated at each dose, under each scenario?`,

@@ -20,14 +20,15 @@
  *   target (shared/doseFinding.ts), for all three designs.
  */
 import { z } from "zod";
-import type { Design } from "./design.js";
+import type { Design, WorkEstimate } from "./design.js";
 import type { Block, Cell, Section } from "../report/document.js";
 import { threePlusThreeOperatingCharacteristics } from "./threePlusThree.js";
-import { type CrmInput, CRM_WORK_LIMIT, crmModelOf, crmTrialRunner } from "./crm.js";
-import { type BoinInput, BOIN_WORK_LIMIT, boinBoundaries, boinTrialRunner } from "./boin.js";
+import { type CrmInput, crmModelOf, crmTrialRunner } from "./crm.js";
+import { type BoinInput, boinBoundaries, boinTrialRunner } from "./boin.js";
 import { checkCrmSkeleton } from "./shared/crmSkeletonChecks.js";
+import { boinSimulationWork, crmSimulationWork, simulationReduce, simulationSize, threePlusThreeWork } from "./shared/doseFindingCost.js";
 import {
-  MAX_DOSES, type OperatingCharacteristics, assertSimulationBudget, checkDoseFindingInput, checkScenarios, doseFindingFields,
+  MAX_DOSES, type OperatingCharacteristics, checkDoseFindingInput, checkScenarios, doseFindingFields,
   issueReporter, overdosingShares, scenarioSchema, scenarioSeed, selectionChart, simulateScenario, simulationFields, summaryCells, summaryColumns, trueMtd,
 } from "./shared/doseFinding.js";
 import { LEE_CHEUNG_2009, LIU_YUAN_2015, OQUIGLEY_PEPE_FISHER_1990, STORER_1989 } from "./shared/doseFindingReferences.js";
@@ -122,9 +123,6 @@ function threePlusThreeCharacteristics(v: DoseFindingComparisonInput): Operating
 }
 
 export function computeDoseFindingComparison(v: DoseFindingComparisonInput): DoseFindingComparisonResult {
-  const plan = { trials: v.trials, scenarios: 1, maxSampleSize: v.maxSampleSize, cohortSize: v.cohortSize, doses: v.doses.length };
-  assertSimulationBudget("CRM", plan, CRM_WORK_LIMIT);
-  assertSimulationBudget("BOIN", plan, BOIN_WORK_LIMIT);
   const crmInput = crmInputOf(v);
   const model = crmModelOf(crmInput);
   const boinInput = boinInputOf(v);
@@ -138,6 +136,22 @@ export function computeDoseFindingComparison(v: DoseFindingComparisonInput): Dos
       { design: "CRM", exact: false, operatingCharacteristics: simulateScenario(v.scenario, v.target, v.trials, seed, crmTrialRunner(crmInput, model)) },
       { design: "BOIN", exact: false, operatingCharacteristics: simulateScenario(v.scenario, v.target, v.trials, seed, boinTrialRunner(boinInput)) },
     ],
+  };
+}
+
+/** The three designs' work added up: the 3+3 enumeration and one scenario simulated by the CRM and by BOIN. */
+export function costDoseFindingComparison(v: DoseFindingComparisonInput): WorkEstimate {
+  const size = { ...simulationSize(v), scenarioCount: 1 };
+  const parts = [
+    threePlusThreeWork(v.doses.length),
+    crmSimulationWork(size, { kind: v.crmModel, intercept: COMPARISON_LOGISTIC_INTERCEPT, priorVariance: v.crmPriorVariance }),
+    boinSimulationWork(size),
+  ];
+  const [tpt, crm, boin] = parts;
+  return {
+    milliseconds: parts.reduce((sum, p) => sum + p.milliseconds, 0),
+    breakdown: `CRM: ${crm!.breakdown}; BOIN: the same trials; 3+3: ${tpt!.breakdown}`,
+    reduce: simulationReduce(v),
   };
 }
 
@@ -238,6 +252,7 @@ export const doseFindingComparison: Design<DoseFindingComparisonInput, DoseFindi
     seed: 20261201,
   },
   compute: computeDoseFindingComparison,
+  cost: costDoseFindingComparison,
   question: (v) => `If the true DLT probabilities at ${v.doses.join(", ")} are ${v.scenario.dltProbabilities.join(", ")}, how do the 3+3 design, the CRM and BOIN targeting ${v.target} compare in selecting the MTD and in the patients they treat?`,
   document: documentComparison,
   references: [

@@ -26,9 +26,10 @@
  *   the enumeration do not depend on it.
  */
 import { z } from "zod";
-import type { Design } from "./design.js";
+import type { Design, WorkEstimate } from "./design.js";
 import type { Section } from "../report/document.js";
 import { binomialPmf } from "../stats/binomial.js";
+import { threePlusThreeWork } from "./shared/doseFindingCost.js";
 import { STORER_1989 } from "./shared/doseFindingReferences.js";
 import { designSection, protocolSection } from "./shared/reportSections.js";
 
@@ -206,6 +207,11 @@ function computeThreePlusThree(input: ThreePlusThreeInput): ThreePlusThreeResult
   return { ...oc, mostLikelySelection };
 }
 
+/** The enumeration's work grows as 2^doses (shared/doseFindingCost.ts); at most 12 doses keep it within a few milliseconds. */
+function costThreePlusThree(input: ThreePlusThreeInput): WorkEstimate {
+  return { ...threePlusThreeWork(input.doses.length), reduce: ["doses"] };
+}
+
 const pct = (x: number, d = 1): string => `${(x * 100).toFixed(d)}%`;
 
 function decisionRules(mtdRule: MtdRule): Array<[string, string]> {
@@ -325,6 +331,7 @@ export const threePlusThree: Design<ThreePlusThreeInput, ThreePlusThreeResult> =
     mtdRule: "next-lower-dose",
   },
   compute: computeThreePlusThree,
+  cost: costThreePlusThree,
   question: (input) =>
     `If the true DLT probabilities at ${input.doses.join(", ")} are ${input.dltProbabilities.join(", ")}, how often does the 3+3 design declare each dose the MTD${input.mtdRule === "next-lower-dose-with-six" ? " (with 6 patients required at the MTD)" : ""}, and how many patients and DLTs should be expected?`,
   document: documentThreePlusThree,

@@ -60,11 +60,24 @@ describe("bad input and infeasible plans", () => {
       expect(problem.errors?.map((e) => e.path)).toContain(path);
     });
   }
-  it("crm: 422 saying what to reduce for a plan above the compute budget", async () => {
+  it("crm: 422 over-compute-budget naming trials for a plan above the compute budget", async () => {
     const res = await createCalculation("crm", { doses, cohortSize: 1, maxSampleSize: 150, trials: 20000, scenarios });
     expect(res.status).toBe(422);
     const problem = await res.json<ProblemBody>();
-    expect(problem.detail).toMatch(/Reduce the number of trials/);
-    expect(problem.bound).toBeGreaterThan(0);
+    expect(problem.type).toMatch(/over-compute-budget$/);
+    expect(problem.field).toBe("trials");
+    expect(problem.breakdown).toMatch(/^20,000 trials × 150 dose decisions/);
+    expect(problem.estimatedMilliseconds).toBeGreaterThan(problem.budgetMilliseconds as number);
+    expect(problem.detail).toMatch(/Reduce "trials" or "maxSampleSize"/);
+  });
+  it("boin and dose-finding-comparison: 422 over-compute-budget naming trials", async () => {
+    const tenDoses = Array.from({ length: 10 }, (_, i) => `TW-417 ${(i + 1) * 10} mg`);
+    const safe = { name: "s", dltProbabilities: tenDoses.map(() => 0.01) };
+    const boinRes = await createCalculation("boin", { doses: tenDoses, cohortSize: 1, maxSampleSize: 150, trials: 20000, scenarios: Array(6).fill(safe) });
+    const comparisonRes = await createCalculation("dose-finding-comparison", { doses, cohortSize: 1, maxSampleSize: 150, trials: 20000, scenario: scenarios[0] });
+    for (const res of [boinRes, comparisonRes]) {
+      expect(res.status).toBe(422);
+      expect(await res.json<ProblemBody>()).toMatchObject({ status: 422, field: "trials" });
+    }
   });
 });

@@ -220,6 +220,14 @@ const MAX_PANEL = 0.8;
 export function widestPanel(model: Pick<CrmModel, "kind" | "intercept">): number {
   return model.kind === "logistic" ? Math.min(MAX_PANEL, Math.atan(Math.PI / model.intercept)) : MAX_PANEL;
 }
+
+/** The widest width of the grid's panels that a model uses: FINEST_PANEL × 2^level, not above widestPanel. */
+export function gridPanelWidth(model: Pick<CrmModel, "kind" | "intercept">): number {
+  const widest = widestPanel(model);
+  let level = 0;
+  while (level + 1 < LEVELS && FINEST_PANEL * 2 ** (level + 1) <= widest) level++;
+  return FINEST_PANEL * 2 ** level;
+}
 /** Scale units around the mode that keep the finest panels. */
 const INNER_REACH = 6;
 /** Gauss-Legendre nodes per panel of the fast rule. */

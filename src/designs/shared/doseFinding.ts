@@ -1,8 +1,7 @@
 /**
  * Logic shared by the dose-finding designs (CRM, BOIN and their comparison):
  * the input fields with one meaning across them, the checks a scenario or a
- * data set must pass, the compute budget of a simulation, the seeded
- * simulation loop that turns single trials into operating characteristics,
+ * data set must pass, the seeded simulation loop that turns single trials into operating characteristics,
  * and the report blocks that show them.
  *
  * Conventions (stated in every dose-finding report):
@@ -17,12 +16,12 @@
  *   (mod 2³²), so adding a scenario does not change the others.
  */
 import { z } from "zod";
-import { InfeasibleDesignError } from "../design.js";
 import type { Block, Cell, Column, Fact, Section } from "../../report/document.js";
 import { type RandomSource, createRandom } from "../../stats/random.js";
 
 export const MAX_DOSES = 10;
 export const MAX_SCENARIOS = 6;
+export const MIN_TRIALS = 100;
 export const MAX_TRIALS = 20000;
 export const MAX_SAMPLE_SIZE = 150;
 export const MAX_COHORT = 6;
@@ -60,8 +59,8 @@ export type Scenario = z.output<typeof scenarioSchema>;
 export const simulationFields = {
   scenarios: z.array(scenarioSchema).min(1, "Give at least one scenario.").max(MAX_SCENARIOS, `At most ${MAX_SCENARIOS} scenarios per calculation.`).optional()
     .describe(`Scenarios of true DLT probabilities to simulate trials under (1 to ${MAX_SCENARIOS}); needed to plan.`),
-  trials: z.number().int().min(100).max(MAX_TRIALS).default(1000)
-    .describe(`Number of simulated trials per scenario (100 to ${MAX_TRIALS}); the Monte Carlo standard error of a percentage p is about √(p(100 - p)/trials).`),
+  trials: z.number().int().min(MIN_TRIALS).max(MAX_TRIALS).default(1000)
+    .describe(`Number of simulated trials per scenario (${MIN_TRIALS} to ${MAX_TRIALS}); the Monte Carlo standard error of a percentage p is about √(p(100 - p)/trials).`),
   seed: z.number().int().min(0).max(4294967295).default(20261201)
     .describe("Seed of the random number generator: the same seed gives the same simulated trials, byte for byte."),
 };
@@ -139,26 +138,6 @@ export function checkUseInputs(
 export function observedCounts(data: DoseData[]): { patients: number[]; dlts: number[]; total: number } {
   const patients = data.map((d) => d.patients);
   return { patients, dlts: data.map((d) => d.dlts), total: patients.reduce((a, b) => a + b, 0) };
-}
-
-/**
- * Refuses a simulation whose work (trials × scenarios × decisions per trial ×
- * doses) exceeds what one request may compute, saying what to reduce.
- */
-export function assertSimulationBudget(
-  design: string,
-  plan: { trials: number; scenarios: number; maxSampleSize: number; cohortSize: number; doses: number },
-  limit: number,
-): void {
-  const decisions = Math.ceil(plan.maxSampleSize / plan.cohortSize);
-  const work = plan.trials * plan.scenarios * decisions * plan.doses;
-  if (work > limit) {
-    throw new InfeasibleDesignError(
-      `This ${design} plan needs ${work.toLocaleString("en-US")} units of work (${plan.trials} trials × ${plan.scenarios} scenarios × ${decisions} dose decisions per trial × ${plan.doses} doses), above the limit of ${limit.toLocaleString("en-US")} for one calculation. ` +
-        `Reduce the number of trials, the number of scenarios, or the maximum sample size, or use larger cohorts.`,
-      { bound: limit, work, field: "trials", fields: ["trials", "scenarios", "maxSampleSize", "cohortSize"] },
-    );
-  }
 }
 
 /** The dose closest to the target, the lower one on a tie. */
@@ -271,25 +250,17 @@ export function simulateScenarios(scenarios: Scenario[], target: number, trials:
   return scenarios.map((s, i) => simulateScenario(s, target, trials, scenarioSeed(seed, i), run));
 }
 
-/** The fields of a simulated plan that set its work and its streams. */
+/** The fields of a simulated plan that set its streams. */
 interface SimulationPlan {
-  doses: string[];
   target: number;
-  cohortSize: number;
-  maxSampleSize: number;
   scenarios?: Scenario[] | undefined;
   trials: number;
   seed: number;
 }
 
-/**
- * Checks the work of a plan against the design's limit, then simulates every
- * scenario; the runner is made only once the plan is known to fit.
- */
-export function simulatePlan(design: string, v: SimulationPlan, limit: number, makeRunner: () => TrialRunner): OperatingCharacteristics[] {
-  const scenarios = v.scenarios!;
-  assertSimulationBudget(design, { trials: v.trials, scenarios: scenarios.length, maxSampleSize: v.maxSampleSize, cohortSize: v.cohortSize, doses: v.doses.length }, limit);
-  return simulateScenarios(scenarios, v.target, v.trials, v.seed, makeRunner());
+/** Simulates every scenario of a plan (its work is estimated before, by the design's cost). */
+export function simulatePlan(v: SimulationPlan, run: TrialRunner): OperatingCharacteristics[] {
+  return simulateScenarios(v.scenarios!, v.target, v.trials, v.seed, run);
 }
 
 /** Treats a cohort at a dose, drawing each patient's DLT from the true probability. */

@@ -5,8 +5,8 @@
 // of the simulations is checked against the adaptive Gauss-Kronrod reference.
 import { describe, expect, it } from "vitest";
 import { expectClose, loadFixture } from "../../support/fixtures.js";
-import { CRM_WORK_LIMIT, computeCrm, crm } from "../../../src/designs/crm.js";
-import { InfeasibleDesignError } from "../../../src/designs/design.js";
+import { COMPUTE_BUDGET_MS, OverBudgetError, assertWithinBudget } from "../../../src/designs/budget.js";
+import { computeCrm, costCrm, crm } from "../../../src/designs/crm.js";
 import { calibrateSkeleton, type CrmModelKind } from "../../../src/designs/shared/crmModel.js";
 import { CrmFastPosterior, crmPosterior, widestPanel } from "../../../src/designs/shared/crmPosterior.js";
 import { createRandom } from "../../../src/stats/random.js";
@@ -184,19 +184,38 @@ describe("CRM simulation", () => {
     for (const m of oc.meanPatients.slice(0, 4)) expect(m).toBeGreaterThan(0.99);
   });
 
-  it("refuses a plan above the compute budget with a 422 that says what to reduce", () => {
+  it("estimates a plan above the compute budget and is refused naming trials first, before any simulation", () => {
     const scenario = { name: "s", dltProbabilities: [0.1, 0.2, 0.3, 0.4, 0.5] };
     const input = crm.input.parse({ doses, cohortSize: 1, maxSampleSize: 150, trials: 20000, scenarios: [scenario] });
-    expect(() => computeCrm(input)).toThrow(InfeasibleDesignError);
-    expect(() => computeCrm(input)).toThrow(/Reduce the number of trials/);
+    const estimate = costCrm(input);
+    expect(estimate.milliseconds).toBeGreaterThan(COMPUTE_BUDGET_MS);
+    expect(estimate.reduce).toEqual(["trials", "maxSampleSize"]);
+    expect(estimate.breakdown).toBe("20,000 trials × 150 dose decisions (150 patients in cohorts of 1) over 5 doses, each decision a posterior by up to 302 quadrature nodes");
+    expect(() => assertWithinBudget(crm, input)).toThrow(/Reduce "trials" or "maxSampleSize"/);
+    // Fields already at their least are not offered: 100 trials is the fewest, one scenario the fewest.
+    expect(costCrm(crm.input.parse({ doses, maxSampleSize: 150, trials: 100, scenarios: [scenario] })).reduce).toEqual(["maxSampleSize"]);
+    expect(costCrm(crm.input.parse({ doses, maxSampleSize: 150, trials: 100, scenarios: [scenario, scenario] })).reduce).toEqual(["scenarios", "maxSampleSize"]);
   });
 
-  it("refuses a plan that would run past a request's time, such as 400 trials of 150 patients one by one over 10 doses (found by the degenerate-input audit)", () => {
-    // Common practice, no source: 1,333 such trials (2,000,000 units) were accepted and took about 6 s; the limit is now 500,000 units (bench/crm.bench.ts).
+  it("admits 10,000 trials of 30 patients over 5 doses, power or logistic, and refuses 500 trials of 150 patients one by one over 10 doses (found by the degenerate-input audit)", () => {
+    // The figure the budget was set for (bench/crm.bench.ts: about 1.2 s and 1.3 s of CPU); 1,333 trials of the
+    // second plan took about 6 s, 300 take about 1.2 s of CPU (bench/designs.bench.ts, heaviest cases).
+    for (const model of ["power", "logistic"] as const) {
+      const plan = crm.input.parse({ doses, model, cohortSize: 3, maxSampleSize: 30, trials: 10000, scenarios: [{ name: "s", dltProbabilities: [0.05, 0.12, 0.25, 0.4, 0.55] }] });
+      expect(() => assertWithinBudget(crm, plan), model).not.toThrow();
+    }
     const tenDoses = Array.from({ length: 10 }, (_, i) => `dose ${i + 1}`);
     const plan = (trials: number) => crm.input.parse({ doses: tenDoses, cohortSize: 1, maxSampleSize: 150, trials, scenarios: [{ name: "all safe", dltProbabilities: tenDoses.map(() => 0.001) }] });
-    expect(() => computeCrm(plan(400))).toThrow(/above the limit of 500,000/);
-    expect(CRM_WORK_LIMIT).toBeGreaterThanOrEqual(333 * 150 * 10);
+    expect(() => assertWithinBudget(crm, plan(500))).toThrow(OverBudgetError);
+    expect(() => assertWithinBudget(crm, plan(300))).not.toThrow();
+  });
+
+  it("counts more work for a wider prior and for a logistic intercept above 3.05 (more quadrature nodes)", () => {
+    const base = { doses, cohortSize: 3, maxSampleSize: 30, trials: 1000, scenarios: [{ name: "s", dltProbabilities: [0.05, 0.12, 0.25, 0.4, 0.55] }] };
+    const ms = (inputs: Record<string, unknown>) => costCrm(crm.input.parse({ ...base, ...inputs })).milliseconds;
+    expect(ms({ priorVariance: 10 })).toBeGreaterThan(ms({ priorVariance: 1.34 }));
+    expect(ms({ model: "logistic", logisticIntercept: 10 })).toBeGreaterThan(ms({ model: "logistic", logisticIntercept: 3 }));
+    expect(ms({ model: "logistic", logisticIntercept: 3 })).toBe(ms({ model: "logistic", logisticIntercept: 1 }));
   });
 });
 

@@ -3,11 +3,11 @@
 // the standalone designs run with the same settings and seed, and validation.
 import { describe, expect, it } from "vitest";
 import { expectClose } from "../../support/fixtures.js";
-import { computeDoseFindingComparison, doseFindingComparison } from "../../../src/designs/doseFindingComparison.js";
+import { computeDoseFindingComparison, costDoseFindingComparison, doseFindingComparison } from "../../../src/designs/doseFindingComparison.js";
 import { computeCrm, crm } from "../../../src/designs/crm.js";
 import { boin, computeBoin } from "../../../src/designs/boin.js";
 import { threePlusThreeOperatingCharacteristics } from "../../../src/designs/threePlusThree.js";
-import { InfeasibleDesignError } from "../../../src/designs/design.js";
+import { COMPUTE_BUDGET_MS, assertWithinBudget } from "../../../src/designs/budget.js";
 import { canonicalJson } from "../../../src/store/canonical.js";
 
 const example = doseFindingComparison.input.parse(doseFindingComparison.example);
@@ -59,6 +59,7 @@ describe("dose-finding comparison", () => {
     expect(bad({ crmSkeleton: [0.1, 0.2, 0.3, 0.4, 0.9995] })).toContain("crmSkeleton.4");
     expect(bad({ doses: Array.from({ length: 10 }, (_, i) => `d${i + 1}`), scenario: { name: "s", dltProbabilities: Array.from({ length: 10 }, () => 0.1) }, target: 0.5, crmSkeletonHalfWidth: 0.25, crmPriorMtd: 1 })).toContain("crmSkeletonHalfWidth");
     const big = doseFindingComparison.input.parse({ ...doseFindingComparison.example, cohortSize: 1, maxSampleSize: 150, trials: 20000 });
-    expect(() => computeDoseFindingComparison(big)).toThrow(InfeasibleDesignError);
+    expect(costDoseFindingComparison(big).milliseconds).toBeGreaterThan(COMPUTE_BUDGET_MS);
+    expect(() => assertWithinBudget(doseFindingComparison, big)).toThrow(/Reduce "trials" or "maxSampleSize"/);
   });
 });
