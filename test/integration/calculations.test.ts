@@ -3,6 +3,7 @@
 import { SELF, env } from "cloudflare:test";
 import { describe, expect, it } from "vitest";
 import { ORIGIN, type ProblemBody, type RecordBody, createCalculation, get, post } from "../support/http.js";
+import { twoMeans } from "../../src/designs/twoMeans.js";
 
 const inputs = { delta: 0.5, sd: 1, alpha: 0.05, power: 0.8 };
 
@@ -34,7 +35,7 @@ describe("freezing a calculation", () => {
   it("stores normalized inputs and the result (64 per group, Cohen 1988 table 2.4.1)", async () => {
     const record = await (await createCalculation("two-means", inputs)).json<RecordBody>();
     expect(record.design).toBe("two-means");
-    expect(record.designVersion).toBe(2);
+    expect(record.designVersion).toBe(twoMeans.version);
     expect(record.engine).toMatch(/^trialwright \d+\.\d+\.\d+$/);
     expect(record.inputs).toMatchObject({ ...inputs, method: "exact-t", sides: 2, allocationRatio: 1, dropout: 0 });
     expect(record.result).toMatchObject({ n1: 64, n2: 64, total: 128 });
