@@ -1,8 +1,9 @@
 // Comparative designs and group-sequential boundaries at the edge of their
 // work. None of them can exceed the compute budget within its schema's bounds
 // (searches stop at a fixed size, exact scans at 500 per arm, looks at 10), so
-// each says why instead of listing refused inputs; the figures are CPU medians
-// from `npm run bench designs` on the reference machine.
+// each says why instead of listing refused inputs; the figures are medians
+// from `npm run bench designs` and CPU medians on the reference machine while
+// other work shared it.
 import type { BudgetCaseTable } from "./types.js";
 
 /** Ten looks bunched early, where the recursion's grids are widest apart. */
@@ -21,7 +22,7 @@ export const comparativeCases: BudgetCaseTable = {
       { name: "superiority with 10 interim looks bunched early, with futility", inputs: { delta: 0.5, sd: 1, alpha: 0.00001, power: 0.9999, interimLooks: tenLooksWithFutility } },
     ],
     overBudget: [],
-    boundedBySchema: "Sizes stop at 100,000 per control arm and looks at 10, so no input needs more than 232 power evaluations and 10 looks of boundaries; the heaviest found, 10 interim looks with futility, takes about 70 ms.",
+    boundedBySchema: "Sizes stop at 100,000 per control arm and looks at 10, so no input needs more than 232 power evaluations and 10 looks of boundaries; the heaviest found, 10 interim looks with futility, takes 40 to 70 ms.",
   },
   "two-proportions": {
     heaviest: [
@@ -31,7 +32,7 @@ export const comparativeCases: BudgetCaseTable = {
       { name: "Fisher's exact power at 1,000 per arm", inputs: { method: "fisher-exact", solveFor: "power", p1: 0.5, p2: 0.52, n1: 1000, n2: 1000, alpha: 0.000001 } },
     ],
     overBudget: [],
-    boundedBySchema: "The exact sample-size scan stops at 500 per arm and exact power takes arms up to 1,000, so no input enumerates more than about 5 million terms; the heaviest found, a scan to 500 per arm, takes about 0.25 s.",
+    boundedBySchema: "The exact sample-size scan stops at 500 per arm and exact power takes arms up to 1,000, so no input enumerates more than about 5 million terms; the heaviest found, a scan to 500 per arm, takes 0.15 to 0.25 s.",
   },
   "crossover-2x2": {
     heaviest: [
@@ -47,14 +48,14 @@ export const comparativeCases: BudgetCaseTable = {
       { name: "sizes for small main effects with Holm, an interaction beyond the bound", inputs: { sd: 1, effectA: 0.05, effectB: 0.05, interaction: 0.001, multiplicity: "holm", alpha: 0.000001, power: 0.99 } },
     ],
     overBudget: [],
-    boundedBySchema: "Each of the three size searches stops at 50,000 per cell, so no input needs more than about 400 power evaluations; the heaviest found takes about 5 ms.",
+    boundedBySchema: "Each of the three size searches stops at 50,000 per cell, so no input needs more than about 400 power evaluations; the heaviest found takes about 2 ms.",
   },
   "time-to-event": {
     heaviest: [
       { name: "events for a median of 10 against 1,000 years, 10 interim looks with futility", inputs: { controlMedianYears: 1000, experimentalMedianYears: 10, accrualYears: 0.5, followUpYears: 1, alpha: 0.00001, power: 0.9999, interimLooks: tenLooksWithFutility } },
     ],
     overBudget: [],
-    boundedBySchema: "The events and enrolment are closed forms and interim looks are at most 10, so no input needs more than 10 looks of boundaries; the heaviest found, 10 looks with futility, takes about 70 ms.",
+    boundedBySchema: "The events and enrolment are closed forms and interim looks are at most 10, so no input needs more than 10 looks of boundaries; the heaviest found, 10 looks with futility, takes 40 to 65 ms.",
   },
   "group-sequential": {
     heaviest: [
@@ -63,6 +64,6 @@ export const comparativeCases: BudgetCaseTable = {
       { name: "10 classical O'Brien-Fleming looks with futility, γ = 10", inputs: { looks: 10, efficacyBoundary: "obrien-fleming", futilityBoundary: "hwang-shih-decani", futilityGamma: 10, sides: 2, alpha: 0.2, power: 0.99 } },
     ],
     overBudget: [],
-    boundedBySchema: "Planned and observed looks are at most 10 each, so no input needs more than 20 looks of boundaries; the heaviest found, 10 planned and 10 observed looks with futility, takes about 95 ms.",
+    boundedBySchema: "Planned and observed looks are at most 10 each, so no input needs more than 20 looks of boundaries; the heaviest found, 10 planned and 10 observed looks with futility, takes 75 to 95 ms.",
   },
 };
