@@ -110,7 +110,7 @@ function specOf(input: GroupSequentialInput): GroupSequentialSpec {
 /**
  * The work before computing, in looks of the recursion (groupSequentialCost.ts):
  * the planned looks, and the observed looks when the boundaries are recomputed.
- * At most 20 looks under 10 ms each, so no input is refused.
+ * At most 20 looks, estimated at most about 0.25 s, so no input is refused.
  */
 export function costGroupSequential(input: GroupSequentialInput): WorkEstimate {
   const futility = input.futilityBoundary !== "none";

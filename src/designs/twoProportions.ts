@@ -261,8 +261,8 @@ const DETECTABLE_PROPORTION_EVALUATIONS = 2 + Math.ceil(Math.log2(2 / PROPORTION
  * no larger; at given sizes it evaluates them, the power curve's sizes and the
  * effect curve. The normal methods count power evaluations as the other
  * comparative designs do (sizingCost.ts); interim looks add their boundaries.
- * The exact scan is bounded by 500 per arm and given sizes by 1,000, so every
- * admitted input stays within a fifth of the budget and none is refused.
+ * The exact scan is bounded by 500 per arm and given sizes by 1,000, so no
+ * admitted input is estimated above about 0.45 s and none is refused.
  */
 export function costTwoProportions(input: TwoProportionsInput): WorkEstimate {
   const parts: WorkPart[] = [];
