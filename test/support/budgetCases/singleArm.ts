@@ -1,7 +1,8 @@
 // Single-arm and monitoring designs at the edge of their work. None of them
 // can exceed the compute budget within its schema's bounds, so each says why
-// instead of listing refused inputs; the figures are CPU medians from
-// `npm run bench designs` on the reference machine.
+// instead of listing refused inputs. The times are CPU medians of 3 runs of
+// these cases (process.cpuUsage) while other work shared the machine; the
+// estimates are each design's cost() at its largest.
 import type { BudgetCaseTable } from "./types.js";
 
 export const singleArmCases: BudgetCaseTable = {
@@ -12,7 +13,7 @@ export const singleArmCases: BudgetCaseTable = {
       { name: "a rare response, scanned from 3,979 to 4,990 patients", inputs: { p0: 0.00005, p1: 0.0006, alpha: 0.1, power: 0.8 } },
     ],
     overBudget: [],
-    boundedBySchema: "The scan stops at 5,000 patients, so every input costs at most about 26 million binomial terms; the heaviest found scans 1,891 sizes in about 30 ms.",
+    boundedBySchema: "The scan stops at 5,000 patients, so no input sums more than about 26 million binomial terms (estimated at 0.49 s for every input); the heaviest found scans 1,891 sizes in 0.16 to 0.19 s.",
   },
   "simon-two-stage": {
     heaviest: [
@@ -21,14 +22,14 @@ export const singleArmCases: BudgetCaseTable = {
       { name: "search up to 299 whose smallest design has 298 patients", inputs: { p0: 0.7, p1: 0.755, alpha: 0.1, power: 0.8, maxN: 299 } },
     ],
     overBudget: [],
-    boundedBySchema: "maxN is at most 300 and a search that finds nothing is continued over the larger totals only, so no input adds more than one search up to 300 (about 0.6 s at its heaviest).",
+    boundedBySchema: "maxN is at most 300 and a search that finds nothing is continued over the larger totals only, so no input adds more than one search up to 300: 0.5 to 0.6 s for these cases, 0.6 to 0.9 s for an empty search up to 299, estimated at 1.38 s at most.",
   },
   "gehan-two-stage": {
     heaviest: [
       { name: "688 stage-1 patients, each row from a 99.99% upper limit", inputs: { p1: 0.01, beta: 0.001, targetSE: 0.01, confidenceLevel: 0.9999 } },
     ],
     overBudget: [],
-    boundedBySchema: "p1 ≥ 0.01 and beta ≥ 0.001 allow at most 688 stage-1 patients, one beta quantile each, about 15 ms at most.",
+    boundedBySchema: "p1 ≥ 0.01 and beta ≥ 0.001 allow at most 688 stage-1 patients, one beta quantile each: 7 to 16 ms, estimated at 37 ms at most.",
   },
   "two-stage-inference": {
     heaviest: [
@@ -36,7 +37,7 @@ export const singleArmCases: BudgetCaseTable = {
       { name: "every outcome of 100/200 then 120/300, 99.9% intervals", inputs: { r1: 100, n1: 200, r: 120, n: 300, p0: 0.5, confidenceLevel: 0.999, stage1Responses: 110, stage2Responses: 40 } },
     ],
     overBudget: [],
-    boundedBySchema: "n is at most 300, so there are at most 301 outcomes, each with two root searches over 300 patients, about 70 ms at most.",
+    boundedBySchema: "n is at most 300, so there are at most 301 outcomes, each with two root searches over 300 patients: 45 to 77 ms, estimated at 172 ms at most.",
   },
   "bayesian-monitoring": {
     heaviest: [
@@ -53,6 +54,6 @@ export const singleArmCases: BudgetCaseTable = {
       },
     ],
     overBudget: [],
-    boundedBySchema: "maxN is at most 300 and a threshold search evaluates at most 440 pairs, so the heaviest input takes about 0.15 s.",
+    boundedBySchema: "maxN is at most 300 and a threshold search evaluates at most 440 pairs: the heaviest input takes 73 to 79 ms, estimated at 216 ms at most.",
   },
 };
