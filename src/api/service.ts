@@ -10,7 +10,7 @@ import type { RecordLedger } from "../store/ledger.js";
 import { type ReadOutcome, type RecordStore, verifyRecordText } from "../store/recordStore.js";
 import { StorageUnavailableError } from "../store/storageError.js";
 import { ENGINE } from "../version.js";
-import { ProblemError } from "./problem.js";
+import { type FieldError, ProblemError } from "./problem.js";
 
 /** Round trip through canonical JSON: the inputs hashed are exactly the inputs stored and computed on. */
 export function freezeValue<T>(value: T): T {
@@ -29,7 +29,9 @@ export function computeFrozen(design: AnyDesign, inputs: unknown): unknown {
   } catch (error) {
     if (error instanceof OverBudgetError) throw overBudgetProblem(error);
     if (error instanceof InfeasibleDesignError) {
-      throw new ProblemError(422, "infeasible-design", "No design meets these constraints", error.message, error.details);
+      const named = [error.details.field, ...(Array.isArray(error.details.fields) ? error.details.fields : [])].filter((f): f is string => typeof f === "string");
+      throw new ProblemError(422, "infeasible-design", "No design meets these constraints", error.message,
+        { ...error.details, errors: [...new Set(named)].map((name) => inputError(name, error.message)) });
     }
     throw error;
   }
@@ -43,8 +45,13 @@ function overBudgetProblem(error: OverBudgetError): ProblemError {
     budgetMilliseconds: COMPUTE_BUDGET_MS,
     breakdown,
     ...(reduce[0] !== undefined ? { field: reduce[0] } : {}),
-    reduce: reduce.map((name) => ({ path: `inputs.${name}`, pointer: `/inputs/${name}` })),
+    errors: reduce.map((name) => inputError(name, "Reducing this reduces the computing the calculation needs.")),
   });
+}
+
+/** A 422's pointer to the input it names, in the same form as a 400's field errors. */
+function inputError(name: string, message: string): FieldError {
+  return { path: `inputs.${name}`, pointer: `/inputs/${name}`, message };
 }
 
 /** What a calculation request got: a frozen record, or a result that could not be frozen (and has no permalink). */

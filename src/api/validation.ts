@@ -111,12 +111,18 @@ export async function readBoundedText(request: Request): Promise<string> {
   try {
     return new TextDecoder("utf-8", { fatal: true }).decode(all);
   } catch {
-    throw new ProblemError(400, "malformed-body", "The body is not UTF-8", "Send the request body as UTF-8 encoded JSON.");
+    throw new ProblemError(400, "malformed-body", "The body is not UTF-8", "Send the request body as UTF-8 encoded JSON.", { errors: [bodyError("The body is not valid UTF-8.")] });
   }
 }
 
 function tooLarge(): ProblemError {
-  return new ProblemError(413, "body-too-large", "The request body is too large", `Request bodies are limited to ${MAX_BODY_BYTES} bytes.`, { limit: MAX_BODY_BYTES });
+  return new ProblemError(413, "body-too-large", "The request body is too large", `Request bodies are limited to ${MAX_BODY_BYTES} bytes.`,
+    { limit: MAX_BODY_BYTES, errors: [bodyError(`Longer than ${MAX_BODY_BYTES} bytes.`)] });
+}
+
+/** An error about the whole body: the empty path, and the JSON Pointer "" (RFC 6901: the whole document). */
+function bodyError(message: string): FieldError {
+  return { path: "", pointer: "", message };
 }
 
 /** Parses and validates `{ inputs, label? }` against the design's schema. */
@@ -125,8 +131,9 @@ export function parseCalculationRequest(design: AnyDesign, text: string): { inpu
   try {
     body = JSON.parse(text);
   } catch (e) {
+    const reason = text.trim() === "" ? "the body is empty" : e instanceof Error ? e.message : "syntax error";
     throw new ProblemError(400, "malformed-json", "The body is not valid JSON",
-      `The request body could not be parsed as JSON (${e instanceof Error ? e.message : "syntax error"}).`);
+      `The request body could not be parsed as JSON (${reason}). Send {"inputs": {...}}.`, { errors: [bodyError(`Not valid JSON: ${reason}.`)] });
   }
   const shape = envelope.safeParse(body);
   if (!shape.success) throw invalidInput(fieldErrors(shape.error));

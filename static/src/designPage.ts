@@ -183,14 +183,16 @@ class DesignPage {
   }
 
   private showProblem(problem: Problem): void {
-    if (problem.errors && problem.errors.length > 0) {
+    if (problem.status === 400 && problem.errors && problem.errors.length > 0) {
       this.showFieldErrors(problem.errors, "Fix the marked fields to see a result.");
       return;
     }
+    // Valid inputs that cannot be computed (422): mark the fields the answer names, explain above the result.
     this.form.clearErrors();
     this.summary.hidden = true;
     const field = typeof problem.field === "string" ? problem.field : undefined;
-    if (field) this.form.showErrors([{ path: `inputs.${field}`, pointer: `/inputs/${field}`, message: problem.detail }]);
+    const marks = problem.errors && problem.errors.length > 0 ? problem.errors : field ? [{ path: `inputs.${field}`, pointer: `/inputs/${field}`, message: problem.detail }] : [];
+    if (marks.length > 0) this.form.showErrors(marks);
     replaceChildren(this.problem, h("p", { class: "problem-title" }, problem.title), h("p", {}, problem.detail));
     this.problem.hidden = false;
     if (this.hasResult) this.result.classList.add("stale");

@@ -2,11 +2,10 @@
 // limit on computing requests, through the real Worker in workerd. The header
 // set is common practice (OWASP Secure Headers project; no published source
 // fixes the exact values).
-import { SELF, createExecutionContext, env, waitOnExecutionContext } from "cloudflare:test";
+import { env } from "cloudflare:test";
 import { describe, expect, it } from "vitest";
-import worker from "../../src/index.js";
 import type { Env } from "../../src/env.js";
-import { ORIGIN, type ProblemBody, type RecordBody, createCalculation, get, post } from "../support/http.js";
+import { type ProblemBody, type RecordBody, createCalculation, fetchWorker, get, post } from "../support/http.js";
 
 const inputs = { delta: 0.5, sd: 1, alpha: 0.05, power: 0.8 };
 
@@ -70,7 +69,7 @@ describe("CORS", () => {
   });
 
   it("answers a preflight for a JSON POST", async () => {
-    const response = await SELF.fetch(`${ORIGIN}/api/v1/designs/two-means/calculations`, {
+    const response = await fetchWorker("/api/v1/designs/two-means/calculations", {
       method: "OPTIONS",
       headers: { origin: "https://registry.example.org", "access-control-request-method": "POST", "access-control-request-headers": "content-type" },
     });
@@ -92,13 +91,8 @@ function countingLimiter(allowed: number): RateLimit & { keys: string[] } {
   return { keys, limit: async ({ key }) => { keys.push(key); return { success: keys.length <= allowed }; } };
 }
 
-async function withBindings(bindings: Partial<Env>, path: string, body: unknown): Promise<Response> {
-  const ctx = createExecutionContext();
-  const response = await worker.fetch(new Request(`${ORIGIN}${path}`, {
-    method: "POST", headers: { "content-type": "application/json", "cf-connecting-ip": "203.0.113.7" }, body: JSON.stringify(body),
-  }), { ...env, ...bindings }, ctx);
-  await waitOnExecutionContext(ctx);
-  return response;
+function withBindings(bindings: Partial<Env>, path: string, body: unknown): Promise<Response> {
+  return fetchWorker(path, { method: "POST", headers: { "content-type": "application/json", "cf-connecting-ip": "203.0.113.7" }, body: JSON.stringify(body) }, bindings);
 }
 
 describe("the optional rate limit", () => {
@@ -122,8 +116,7 @@ describe("the optional rate limit", () => {
     expect((await refused.json<ProblemBody>()).type).toMatch(/rate-limited$/);
     expect(limiter.keys).toEqual(["203.0.113.7", "203.0.113.7", "203.0.113.7"]);
     // Reading is never limited.
-    const ctx = createExecutionContext();
-    const read = await worker.fetch(new Request(`${ORIGIN}/api/v1/designs`), { ...env, ...on }, ctx);
+    const read = await fetchWorker("/api/v1/designs", {}, on);
     expect(read.status).toBe(200);
     expect(limiter.keys).toHaveLength(3);
   });

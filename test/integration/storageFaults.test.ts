@@ -4,11 +4,9 @@
 // under faults"): a calculation is still answered when storage fails, marked
 // as not frozen, with no permalink; an altered record is never served as sound;
 // concurrent identical requests produce one record.
-import { createExecutionContext, env, waitOnExecutionContext } from "cloudflare:test";
+import { env } from "cloudflare:test";
 import { describe, expect, it } from "vitest";
-import worker from "../../src/index.js";
-import type { Env } from "../../src/env.js";
-import { ORIGIN, type ProblemBody, type RecordBody, createCalculation, get } from "../support/http.js";
+import { type ProblemBody, type RecordBody, createCalculation, fetchWorker, get } from "../support/http.js";
 
 const design = "two-means";
 // Cohen (1988), table 2.4.1: 64 per group for d = 0.5 at two-sided alpha 0.05 and power 0.80.
@@ -40,16 +38,8 @@ const unreachableLedger = {
 } as unknown as DurableObjectNamespace;
 
 /** One request through the Worker with faults in its bindings. */
-async function withFaults(faults: Faults, path: string, init?: RequestInit): Promise<Response> {
-  const bindings: Env = {
-    ...env,
-    CALCULATIONS: faultyKv(env.CALCULATIONS, faults),
-    LEDGER: faults.ledger ? unreachableLedger : env.LEDGER,
-  };
-  const ctx = createExecutionContext();
-  const response = await worker.fetch(new Request(`${ORIGIN}${path}`, init), bindings, ctx);
-  await waitOnExecutionContext(ctx);
-  return response;
+function withFaults(faults: Faults, path: string, init?: RequestInit): Promise<Response> {
+  return fetchWorker(path, init, { CALCULATIONS: faultyKv(env.CALCULATIONS, faults), LEDGER: faults.ledger ? unreachableLedger : env.LEDGER });
 }
 
 function postWithFaults(faults: Faults, body: unknown): Promise<Response> {
