@@ -9,6 +9,9 @@ import { ProblemError } from "./problem.js";
 import { freezeCalculation, loadRecord } from "./service.js";
 import { parseCalculationRequest, readBoundedText, requireJsonContent } from "./validation.js";
 
+/** Canonical JSON is JSON: a stored record's text is served as it stands, without parsing and writing it again. */
+export const JSON_TYPE = "application/json; charset=utf-8";
+
 export function requireId(id: string): string {
   if (!ID_PATTERN.test(id)) {
     throw new ProblemError(404, "unknown-calculation", "No such calculation",
@@ -32,6 +35,6 @@ export const createRouter = new Hono<{ Bindings: Env }>().post("/:design/calcula
 });
 
 export const readRouter = new Hono<{ Bindings: Env }>().get("/:id", async (c) => {
-  const record = await loadRecord(new RecordStore(c.env.CALCULATIONS), requireId(c.req.param("id")));
-  return c.json(record);
+  const { text } = await loadRecord(new RecordStore(c.env.CALCULATIONS), requireId(c.req.param("id")));
+  return c.body(text, 200, { "content-type": JSON_TYPE });
 });

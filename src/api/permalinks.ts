@@ -16,7 +16,8 @@ import { renderHtml } from "../report/html.js";
 import { renderPdf } from "../report/pdf.js";
 import type { CalculationRecord } from "../store/record.js";
 import { RecordStore } from "../store/recordStore.js";
-import { requireId } from "./calculations.js";
+import { BoundedCache } from "../store/boundedCache.js";
+import { JSON_TYPE, requireId } from "./calculations.js";
 import { ProblemError } from "./problem.js";
 import { loadRecord } from "./service.js";
 
@@ -27,6 +28,9 @@ export const PDF_RENDERING_VERSION = 2;
 export const RENDERING_HEADER = "X-Trialwright-Rendering";
 /** The page forbids every script and every request outside itself; a second guard behind escaping. */
 const HTML_POLICY = "default-src 'none'; style-src 'unsafe-inline'; img-src data:; base-uri 'none'; form-action 'none'; frame-ancestors 'none'";
+
+/** Report pages drawn in this Worker: a record never changes, so its page for a given origin never does either. */
+const renderedPages = new BoundedCache<string>(8 * 1024 * 1024);
 
 const FORMATS = ["html", "pdf", "json", "csv", "bib", "ris"] as const;
 type Format = (typeof FORMATS)[number];
@@ -85,7 +89,7 @@ export const permalinkRouter = new Hono<{ Bindings: Env }>().get("/:name", async
     throw new ProblemError(400, "unknown-paper", "No such paper size", "The PDF is drawn on paper=a4 (the default) or paper=letter.");
   }
   const store = new RecordStore(c.env.CALCULATIONS);
-  const record = await loadRecord(store, id);
+  const { record, text } = await loadRecord(store, id);
   let doc: ReportDocument | undefined;
   const report = (): ReportDocument => (doc ??= reportFor(c, record));
   const tableId = c.req.query("table");
@@ -103,10 +107,18 @@ export const permalinkRouter = new Hono<{ Bindings: Env }>().get("/:name", async
 
   switch (format) {
     case "json":
-      return c.json(record);
-    case "html":
+      return c.body(text, 200, { "content-type": JSON_TYPE });
+    case "html": {
       c.header("Content-Security-Policy", HTML_POLICY);
-      return c.html(renderHtml(report()));
+      // The page prints its own permalink, so a page drawn for one origin is kept apart from another's.
+      const key = `${new URL(c.req.url).origin} ${id}`;
+      let page = renderedPages.get(key);
+      if (page === undefined) {
+        page = renderHtml(report());
+        renderedPages.set(key, page, page.length * 2);
+      }
+      return c.html(page);
+    }
     case "pdf": {
       const { bytes, cached } = await pdfBytes(store, id, new URL(c.req.url).host, report, paperParam === "letter" ? "letter" : "a4");
       c.header(RENDERING_HEADER, cached ? "cached" : "rendered");

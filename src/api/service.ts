@@ -137,12 +137,15 @@ export function corruptProblem(id: string, outcome: Extract<ReadOutcome, { statu
     { id, ...(outcome.storedDigest ? { storedDigest: outcome.storedDigest, computedDigest: outcome.computedDigest } : {}), ...(calculation ? { frozen: false, calculation } : {}) });
 }
 
-/** Reads a record, turning a missing or corrupt one, or failed storage, into the matching problem. */
-export async function loadRecord(store: RecordStore, id: string): Promise<CalculationRecord> {
+/**
+ * Reads a verified record with its canonical text (which is its JSON answer
+ * as it stands), turning a missing or corrupt one, or failed storage, into the matching problem.
+ */
+export async function loadRecord(store: RecordStore, id: string): Promise<{ record: CalculationRecord; text: string }> {
   const read = await settle(store.read(id));
   if (!read.ok) throw storageProblem(read.error);
   const outcome = read.value;
-  if (outcome.status === "found") return outcome.record;
+  if (outcome.status === "found") return outcome;
   if (outcome.status === "corrupt") throw corruptProblem(id, outcome);
   throw new ProblemError(404, "unknown-calculation", "No such calculation", `No calculation is stored under the id ${JSON.stringify(id)}.`);
 }

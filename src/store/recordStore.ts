@@ -6,10 +6,11 @@
  */
 import { canonicalJson } from "./canonical.js";
 import { type CalculationRecord, recordDigest } from "./record.js";
+import { BoundedCache } from "./boundedCache.js";
 import { StorageUnavailableError } from "./storageError.js";
 
 export type ReadOutcome =
-  | { status: "found"; record: CalculationRecord }
+  | { status: "found"; record: CalculationRecord; text: string }
   | { status: "missing" }
   | { status: "corrupt"; reason: string; storedDigest?: string; computedDigest?: string };
 
@@ -33,7 +34,7 @@ export async function verifyRecordText(id: string, text: string): Promise<Exclud
     return { status: "corrupt", reason: "the digest does not match the content", storedDigest: record.digest, computedDigest: computed };
   }
   if (canonicalJson(record) !== text) return { status: "corrupt", reason: "the stored bytes are not in canonical form" };
-  return { status: "found", record };
+  return { status: "found", record, text };
 }
 
 async function attempt<T>(what: string, operation: () => Promise<T>): Promise<T> {
@@ -44,14 +45,29 @@ async function attempt<T>(what: string, operation: () => Promise<T>): Promise<T>
   }
 }
 
+/**
+ * Records read and verified in this Worker, so a permalink read again is
+ * served without a KV read or a second digest check. 8 MiB, each record
+ * counted as four bytes a character of its text (the text and its parsed copy):
+ * about five hundred typical records, well inside a Worker's 128 MB.
+ */
+const verified = new BoundedCache<Extract<ReadOutcome, { status: "found" }>>(8 * 1024 * 1024);
+
 export class RecordStore {
   constructor(private readonly kv: KVNamespace) {}
 
-  /** Reads and verifies a record. */
+  /**
+   * Reads and verifies a record. A record verified once is kept in memory:
+   * frozen records never change, and what is kept is only what passed the check.
+   */
   async read(id: string): Promise<ReadOutcome> {
+    const remembered = verified.get(id);
+    if (remembered) return remembered;
     const text = await attempt("the record could not be read", () => this.kv.get(recordKey(id), "text"));
     if (text === null) return { status: "missing" };
-    return verifyRecordText(id, text);
+    const outcome = await verifyRecordText(id, text);
+    if (outcome.status === "found") verified.set(id, outcome, text.length * 4);
+    return outcome;
   }
 
   /** Writes a record's canonical bytes: the record the ledger gave for its id, so a write never replaces one record with another. */

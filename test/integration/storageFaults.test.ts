@@ -126,6 +126,20 @@ describe("reading a record when storage fails", () => {
     }
   });
 
+  it("still serves a record this Worker has read and verified before, from memory, in every format", async () => {
+    const record = await (await createCalculation(design, inputs, "TW-88 remembered")).json<RecordBody>();
+    const healthy = await get(`/c/${record.id}.json`);
+    const stored = await healthy.text();
+    const page = await (await get(`/c/${record.id}`)).text();
+    const res = await withFaults({ read: true }, `/api/v1/calculations/${record.id}`);
+    expect(res.status).toBe(200);
+    expect(await res.text()).toBe(stored);
+    expect(JSON.parse(stored)).toEqual(record);
+    const again = await withFaults({ read: true }, `/c/${record.id}`);
+    expect(again.status).toBe(200);
+    expect(await again.text()).toBe(page);
+  });
+
   it("draws the PDF when the rendering cache cannot be written, and serves it", async () => {
     const record = await (await createCalculation(design, inputs, "TW-88 pdf")).json<RecordBody>();
     const res = await withFaults({ write: true }, `/c/${record.id}.pdf`);
