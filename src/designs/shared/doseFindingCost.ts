@@ -24,7 +24,9 @@
  * The constants were measured with process.cpuUsage, several repeats, on the
  * heaviest inputs of each kind (the budget cases in
  * test/support/budgetCases/doseFinding.ts, timed by `npm run bench designs`,
- * and the simulation figures of bench/crm.bench.ts and bench/boin.bench.ts).
+ * and the simulation figures of bench/crm.bench.ts and bench/boin.bench.ts),
+ * the CRM's as ratios to the bench plan timed in the same process: the shared
+ * machine's load moved the absolute CPU time of one plan by up to 1.4×.
  */
 import type { CrmModelKind } from "./crmModel.js";
 import { gridPanelWidth } from "./crmPosterior.js";
