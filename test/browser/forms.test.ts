@@ -146,6 +146,39 @@ describe("infeasible inputs", () => {
   });
 });
 
+describe("storage failing while freezing", () => {
+  it("keeps the result on screen and says it has no link yet, without marking the inputs", async () => {
+    const page = await newPage();
+    await page.goto(`${base}/design?id=two-means`);
+    await page.waitForSelector("#preview-head .key-facts");
+    await settled(page);
+    const shown = await page.textContent("#preview-head");
+    // The Worker's answer when KV or the ledger fails (src/api/service.ts): 503, the calculation inside, not frozen.
+    await page.route("**/api/v1/designs/two-means/calculations", (route) => route.fulfill({
+      status: 503,
+      contentType: "application/problem+json",
+      headers: { "retry-after": "30" },
+      body: JSON.stringify({
+        type: "https://trialwright.dev/problems/storage-unavailable", title: "Computed, but not frozen", status: 503,
+        detail: "Storage is unavailable: the record could not be written. The calculation below was computed but not stored, so it has no permalink yet.",
+        frozen: false, retryAfterSeconds: 30, calculation: { design: "two-means", designVersion: 1, engine: "trialwright", inputs: {}, result: {} },
+      }),
+    }));
+    await page.click("#freeze-button");
+    await page.waitForSelector("#frozen .not-frozen");
+    const note = await page.textContent("#frozen .not-frozen");
+    expect(note).toContain("Computed, but not frozen");
+    expect(note).toContain("no permanent link yet");
+    expect(note).toContain("30 seconds");
+    expect(await page.$("#permalink")).toBeNull();
+    expect(await page.textContent("#status")).toContain("Not frozen");
+    expect(await page.textContent("#preview-head")).toBe(shown);
+    expect(await page.getAttribute("#result", "class")).not.toContain("stale");
+    expect(await page.$$eval("[aria-invalid=true]", (els) => els.length)).toBe(0);
+    await page.close();
+  });
+});
+
 describe("forms generated from every design's schema", () => {
   it("send back each design's example exactly as the catalog gives it, and show its result", async () => {
     const catalog = await (await fetch(`${base}/api/v1/designs`)).json() as { designs: Array<{ id: string; example: Record<string, unknown> }> };
