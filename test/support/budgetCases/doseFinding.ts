@@ -16,7 +16,7 @@ const longTrials = { doses: tenDoses, cohortSize: 1, maxSampleSize: 150, scenari
 export const doseFindingCases: BudgetCaseTable = {
   crm: {
     heaviest: [
-      { name: "10,000 trials of 30 patients over 5 doses, logistic model", inputs: { doses: fiveDoses, model: "logistic", cohortSize: 3, maxSampleSize: 30, trials: 10000, scenarios: [allSafe(fiveDoses)] } },
+      { name: "10,000 trials of 30 patients over 5 doses, logistic model (the figure the budget was set for)", inputs: { doses: fiveDoses, model: "logistic", cohortSize: 3, maxSampleSize: 30, trials: 10000, scenarios: [mtdAtThird] } },
       { name: "340 trials of 150 patients one by one over 10 doses", inputs: { ...longTrials, trials: 340 } },
       { name: "800 trials of 60 patients over 10 doses, logistic intercept 10, prior variance 10", inputs: { doses: tenDoses, model: "logistic", logisticIntercept: 10, priorVariance: 10, cohortSize: 3, maxSampleSize: 60, trials: 800, scenarios: [allSafe(tenDoses)] } },
     ],
@@ -38,7 +38,7 @@ export const doseFindingCases: BudgetCaseTable = {
   "dose-finding-comparison": {
     heaviest: [
       { name: "320 trials of 150 patients one by one over 10 doses", inputs: { doses: tenDoses, cohortSize: 1, maxSampleSize: 150, trials: 320, scenario: allSafe(tenDoses) } },
-      { name: "10,000 trials of 30 patients over 5 doses", inputs: { doses: fiveDoses, cohortSize: 3, maxSampleSize: 30, trials: 10000, scenario: allSafe(fiveDoses) } },
+      { name: "10,000 trials of 30 patients over 5 doses", inputs: { doses: fiveDoses, cohortSize: 3, maxSampleSize: 30, trials: 10000, scenario: mtdAtThird } },
     ],
     overBudget: [
       { name: "340 trials of 150 patients one by one over 10 doses", inputs: { doses: tenDoses, cohortSize: 1, maxSampleSize: 150, trials: 340, scenario: allSafe(tenDoses) }, reduces: "trials" },
