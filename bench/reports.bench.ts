@@ -21,12 +21,7 @@ for (const design of catalog) {
 const byCells = (d: ReportDocument): number => d.sections.flatMap((s) => s.blocks).reduce((n, b) => n + (b.kind === "table" ? b.table.rows.length * b.table.columns.length : b.kind === "chart" ? 200 : 10), 0);
 const largest = [...docs].sort((a, b) => byCells(b) - byCells(a))[0]!;
 
-// Wall time on a shared machine includes waiting for a core; the process's CPU time per render is printed beside it.
-const cpuBefore = process.cpuUsage();
-const pdfRuns = 15 + 10;
 await benchAsync(`PDF of the largest example (${largest.designId}, ${byCells(largest)} cells)`, () => renderPdf(largest, REPORT_FONTS), { runs: 15, warmup: 10, budgetMs: 200 });
-const cpu = process.cpuUsage(cpuBefore);
-console.log(`${"  CPU time per PDF (user + system, warm-up runs included)".padEnd(60)} mean   ${((cpu.user + cpu.system) / 1000 / pdfRuns).toFixed(2).padStart(9)} ms`);
 bench(`HTML of the largest example (${largest.designId})`, () => renderHtml(largest), { runs: 30 });
 
 // A cached permalink: freeze through the API, draw the PDF once, then count what the cached answers do.

@@ -35,7 +35,7 @@ export interface Design<I = unknown, R = unknown> {
    * before computing: the service refuses (422) an input whose estimate is above
    * COMPUTE_BUDGET_MS (budget.ts) instead of running into the Worker's CPU limit.
    */
-  cost?(input: I): WorkEstimate;
+  cost(input: I): WorkEstimate;
   /** The clinical question in plain words, filled in from the inputs. */
   question(input: I): string;
   /** What the report shows, after the question and inputs. */

@@ -17,18 +17,18 @@ export const doseFindingCases: BudgetCaseTable = {
   crm: {
     heaviest: [
       { name: "10,000 trials of 30 patients over 5 doses, logistic model (the figure the budget was set for)", inputs: { doses: fiveDoses, model: "logistic", cohortSize: 3, maxSampleSize: 30, trials: 10000, scenarios: [mtdAtThird] } },
-      { name: "340 trials of 150 patients one by one over 10 doses", inputs: { ...longTrials, trials: 340 } },
+      { name: "365 trials of 150 patients one by one over 10 doses", inputs: { ...longTrials, trials: 365 } },
       { name: "800 trials of 60 patients over 10 doses, logistic intercept 10, prior variance 10", inputs: { doses: tenDoses, model: "logistic", logisticIntercept: 10, priorVariance: 10, cohortSize: 3, maxSampleSize: 60, trials: 800, scenarios: [allSafe(tenDoses)] } },
     ],
     overBudget: [
       { name: "10,000 trials of 30 patients over 5 doses, logistic model, prior variance 10", inputs: { doses: fiveDoses, model: "logistic", priorVariance: 10, cohortSize: 3, maxSampleSize: 30, trials: 10000, scenarios: [mtdAtThird] }, reduces: "trials" },
-      { name: "360 trials of 150 patients one by one over 10 doses", inputs: { ...longTrials, trials: 360 }, reduces: "trials" },
+      { name: "380 trials of 150 patients one by one over 10 doses", inputs: { ...longTrials, trials: 380 }, reduces: "trials" },
       { name: "2 scenarios × 100 trials (the least) of 150 patients one by one over 10 doses, logistic intercept 10, prior variance 10", inputs: { ...longTrials, scenarios: [allSafe(tenDoses), allSafe(tenDoses)], model: "logistic", logisticIntercept: 10, priorVariance: 10, trials: 100 }, reduces: "scenarios" },
     ],
   },
   boin: {
     heaviest: [
-      { name: "6 scenarios × 15,000 trials of 150 patients one by one over 10 doses", inputs: { ...longTrials, scenarios: Array.from({ length: 6 }, () => allSafe(tenDoses)), trials: 15000 } },
+      { name: "6 scenarios × 19,000 trials of 150 patients one by one over 10 doses", inputs: { ...longTrials, scenarios: Array.from({ length: 6 }, () => allSafe(tenDoses)), trials: 19000 } },
       { name: "10,000 trials of 30 patients over 5 doses", inputs: { doses: fiveDoses, target: 0.3, cohortSize: 3, maxSampleSize: 30, trials: 10000, scenarios: [allSafe(fiveDoses)] } },
     ],
     overBudget: [
@@ -37,12 +37,12 @@ export const doseFindingCases: BudgetCaseTable = {
   },
   "dose-finding-comparison": {
     heaviest: [
-      { name: "320 trials of 150 patients one by one over 10 doses", inputs: { doses: tenDoses, cohortSize: 1, maxSampleSize: 150, trials: 320, scenario: allSafe(tenDoses) } },
+      { name: "350 trials of 150 patients one by one over 10 doses", inputs: { doses: tenDoses, cohortSize: 1, maxSampleSize: 150, trials: 350, scenario: allSafe(tenDoses) } },
       { name: "10,000 trials of 30 patients over 5 doses", inputs: { doses: fiveDoses, cohortSize: 3, maxSampleSize: 30, trials: 10000, scenario: mtdAtThird } },
     ],
     overBudget: [
-      { name: "340 trials of 150 patients one by one over 10 doses", inputs: { doses: tenDoses, cohortSize: 1, maxSampleSize: 150, trials: 340, scenario: allSafe(tenDoses) }, reduces: "trials" },
-      { name: "11,500 trials of 30 patients over 5 doses", inputs: { doses: fiveDoses, cohortSize: 3, maxSampleSize: 30, trials: 11500, scenario: mtdAtThird }, reduces: "trials" },
+      { name: "370 trials of 150 patients one by one over 10 doses", inputs: { doses: tenDoses, cohortSize: 1, maxSampleSize: 150, trials: 370, scenario: allSafe(tenDoses) }, reduces: "trials" },
+      { name: "12,000 trials of 30 patients over 5 doses", inputs: { doses: fiveDoses, cohortSize: 3, maxSampleSize: 30, trials: 12000, scenario: mtdAtThird }, reduces: "trials" },
     ],
   },
   "three-plus-three": {

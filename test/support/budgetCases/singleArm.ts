@@ -20,6 +20,8 @@ export const singleArmCases: BudgetCaseTable = {
       // The only designs are at 300 patients, so nothing prunes the search before it.
       { name: "search up to 300 whose only design has 300 patients", inputs: { p0: 0.65, p1: 0.717, alpha: 0.05, power: 0.8, maxN: 300 } },
       { name: "search up to 299 whose smallest design has 298 patients", inputs: { p0: 0.7, p1: 0.755, alpha: 0.1, power: 0.8, maxN: 299 } },
+      // Nothing within 299, so the whole search runs and then the totals above it are searched for the smallest maxN (a 422).
+      { name: "empty search up to 299, then the totals above it", inputs: { p0: 0.65, p1: 0.717, alpha: 0.05, power: 0.8, maxN: 299 } },
     ],
     overBudget: [],
     boundedBySchema: "maxN is at most 300 and a search that finds nothing is continued over the larger totals only, so no input adds more than one search up to 300: 0.5 to 0.6 s for these cases, 0.6 to 0.9 s for an empty search up to 299, estimated at 1.38 s at most.",

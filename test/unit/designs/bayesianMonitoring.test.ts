@@ -308,7 +308,7 @@ describe("compute budget estimate", () => {
   });
 
   it("grows with the patients, the rates and a threshold search", () => {
-    const cost = (raw: Record<string, unknown>) => bayesianMonitoring.cost!(parse(raw)).milliseconds;
+    const cost = (raw: Record<string, unknown>) => bayesianMonitoring.cost(parse(raw)).milliseconds;
     expect(cost({ limit: 0.2, maxN: 300 })).toBeGreaterThan(cost({ limit: 0.2, maxN: 100 }));
     expect(cost({ limit: 0.2, maxN: 300, trueRates: [0.1, 0.2, 0.3, 0.4, 0.5, 0.6] })).toBeGreaterThan(cost({ limit: 0.2, maxN: 300, trueRates: [0.1] }));
     const { thresholds: _search, ...given } = searched;

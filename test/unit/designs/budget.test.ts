@@ -13,8 +13,7 @@ describe.each(catalog.map((d) => [d.id, d] as const))("%s: compute budget", (_id
   const cases = budgetCases[design.id];
 
   it("estimates the work of its example, well within the budget, naming real fields", () => {
-    expect(design.cost, "the design has no cost estimator").toBeTypeOf("function");
-    const estimate = design.cost!(design.input.parse(design.example));
+    const estimate = design.cost(design.input.parse(design.example));
     expect(Number.isFinite(estimate.milliseconds) && estimate.milliseconds > 0, JSON.stringify(estimate)).toBe(true);
     expect(estimate.milliseconds).toBeLessThan(COMPUTE_BUDGET_MS);
     expect(estimate.breakdown.length).toBeGreaterThan(0);
@@ -29,14 +28,14 @@ describe.each(catalog.map((d) => [d.id, d] as const))("%s: compute budget", (_id
 
   it.each((cases?.heaviest ?? []).map((c) => [c.name, c] as const))("admits %s", (_name, c) => {
     const inputs = design.input.parse(c.inputs);
-    const estimate = design.cost!(inputs);
+    const estimate = design.cost(inputs);
     expect(estimate.milliseconds, estimate.breakdown).toBeLessThanOrEqual(COMPUTE_BUDGET_MS);
     expect(() => assertWithinBudget(design, inputs)).not.toThrow();
   });
 
   it.each((cases?.overBudget ?? []).map((c) => [c.name, c] as const))("refuses %s, naming what to reduce", (_name, c) => {
     const inputs = design.input.parse(c.inputs);
-    const estimate = design.cost!(inputs);
+    const estimate = design.cost(inputs);
     expect(estimate.milliseconds, estimate.breakdown).toBeGreaterThan(COMPUTE_BUDGET_MS);
     expect(estimate.reduce).toContain(c.reduces);
     for (const name of estimate.reduce) expect(fields).toContain(name);

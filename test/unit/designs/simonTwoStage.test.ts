@@ -240,7 +240,7 @@ describe("degenerate targets", () => {
 });
 
 describe("compute budget estimate", () => {
-  const cost = (inputs: Record<string, unknown>) => simonTwoStage.cost!(parse(inputs));
+  const cost = (inputs: Record<string, unknown>) => simonTwoStage.cost(parse(inputs));
 
   it("a design promised by the single-stage witness is always found by the search (the estimate leaves out the second search on its word)", () => {
     const rate = fc.double({ min: 0.001, max: 0.999, noNaN: true });
