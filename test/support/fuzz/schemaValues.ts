@@ -2,25 +2,10 @@
 // values inside every bound (biased to the bounds themselves, where numerical
 // trouble lives), and hostile values of every other kind.
 import fc from "fast-check";
-import type { JsonSchema } from "../../../src/designs/schema.js";
+// The JSON Schema subset the form pages read is the one these generators need.
+import type { JsonSchema } from "../../../static/src/api.js";
 
-type Schema = JsonSchema & {
-  type?: string;
-  enum?: unknown[];
-  const?: unknown;
-  minimum?: number;
-  maximum?: number;
-  exclusiveMinimum?: number;
-  exclusiveMaximum?: number;
-  minItems?: number;
-  maxItems?: number;
-  minLength?: number;
-  maxLength?: number;
-  items?: Schema;
-  anyOf?: Schema[];
-  oneOf?: Schema[];
-  properties?: Record<string, Schema>;
-};
+type Schema = JsonSchema;
 
 /** Numbers in [lo, hi] (open ends moved in by a relative step), with the ends, their neighbours and round values favoured. */
 function boundedNumber(s: Schema, integer: boolean): fc.Arbitrary<number> {

@@ -9,7 +9,7 @@ import { COMPUTE_BUDGET_MS, OverBudgetError, assertWithinBudget } from "../../..
 import { computeCrm, costCrm, crm } from "../../../src/designs/crm.js";
 import { calibrateSkeleton, type CrmModelKind } from "../../../src/designs/shared/crmModel.js";
 import { CrmFastPosterior, crmPosterior, widestPanel } from "../../../src/designs/shared/crmPosterior.js";
-import { createRandom } from "../../../src/stats/random.js";
+import { type RandomSource, createRandom } from "../../../src/stats/random.js";
 import { canonicalJson } from "../../../src/store/canonical.js";
 
 const doses = ["d1", "d2", "d3", "d4", "d5"];
@@ -81,18 +81,28 @@ describe("CRM posterior (reference quadrature) against R integrate()", () => {
   });
 });
 
+/**
+ * Data sets over 5 doses of up to 150, 30 or 10 patients a dose, some doses
+ * untried, every seventh with no DLT and every eleventh with nothing but DLTs.
+ */
+function* randomDataSets(random: RandomSource, count: number): Generator<[number[], number[]]> {
+  for (let t = 0; t < count; t++) {
+    const most = [150, 30, 10][t % 3]!;
+    const n = Array.from({ length: 5 }, () => (random.uniform() < 0.6 ? random.integer(most) : 0));
+    const y = n.map((m) => random.integer(m + 1));
+    if (t % 7 === 0) y.fill(0);
+    if (t % 11 === 0) n.forEach((m, i) => { y[i] = m; });
+    yield [n, y];
+  }
+}
+
 describe("CRM fast posterior of the simulations", () => {
   it("agrees with the adaptive reference to 1e-9 on 300 random data sets per model", () => {
     for (const kind of ["power", "logistic"] as const) {
       const random = createRandom(kind === "power" ? 11 : 12);
       const model = { kind, skeleton: calibrateSkeleton(kind, 0.25, 0.05, 2, 5), intercept: 3, priorVariance: 1.34 };
       const fast = new CrmFastPosterior(model, 0.25);
-      for (let t = 0; t < 300; t++) {
-        const most = [150, 30, 10][t % 3]!;
-        const n = Array.from({ length: 5 }, () => (random.uniform() < 0.6 ? random.integer(most) : 0));
-        const y = n.map((m) => random.integer(m + 1));
-        if (t % 7 === 0) y.fill(0);
-        if (t % 11 === 0) n.forEach((m, i) => { y[i] = m; });
+      for (const [n, y] of randomDataSets(random, 300)) {
         const ref = crmPosterior(model, n, y, 0.25);
         fast.update(n, y);
         const where = { kind, n, y };
@@ -129,12 +139,7 @@ describe("CRM fast posterior with a logistic intercept above 3", () => {
       const random = createRandom(31);
       const model = { kind: "logistic" as const, skeleton: calibrateSkeleton("logistic", 0.25, 0.05, 2, 5, 10), intercept: 10, priorVariance };
       const fast = new CrmFastPosterior(model, 0.25);
-      for (let t = 0; t < 200; t++) {
-        const most = [150, 30, 10][t % 3]!;
-        const n = Array.from({ length: 5 }, () => (random.uniform() < 0.6 ? random.integer(most) : 0));
-        const y = n.map((m) => random.integer(m + 1));
-        if (t % 7 === 0) y.fill(0);
-        if (t % 11 === 0) n.forEach((m, i) => { y[i] = m; });
+      for (const [n, y] of randomDataSets(random, 200)) {
         const ref = crmPosterior(model, n, y, 0.25);
         fast.update(n, y);
         for (let i = 0; i < 5; i++) expectClose(fast.meanProbability[i]!, ref.meanProbability[i]!, 1e-9, { priorVariance, n, y, dose: i + 1 });
