@@ -45,7 +45,7 @@ function overBudgetProblem(error: OverBudgetError): ProblemError {
     budgetMilliseconds: COMPUTE_BUDGET_MS,
     breakdown,
     ...(reduce[0] !== undefined ? { field: reduce[0] } : {}),
-    errors: reduce.map((name) => inputError(name, "Reducing this reduces the computing the calculation needs.")),
+    errors: reduce.map((name) => inputError(name, "Lower this to bring the calculation within the compute budget.")),
   });
 }
 

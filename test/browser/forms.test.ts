@@ -146,6 +146,23 @@ describe("infeasible inputs", () => {
   });
 });
 
+describe("a calculation beyond the compute budget", () => {
+  it("is explained above the result, with the fields to reduce marked", async () => {
+    const page = await newPage();
+    await page.goto(`${base}/design?id=crm`);
+    await page.waitForSelector("#preview-head .key-facts");
+    // The example's 2 scenarios at the most trials the schema allows is estimated well beyond the budget (src/designs/shared/doseFindingCost.ts).
+    await page.fill("#f-trials", "20000");
+    await page.waitForSelector("#problem:not([hidden])", { timeout: 20000 });
+    expect(await page.textContent("#problem")).toContain("more computing than one request may use");
+    expect(await page.textContent("#status")).toContain("more computing");
+    expect(await page.getAttribute("#f-trials", "aria-invalid")).toBe("true");
+    expect(await page.textContent("#err-trials")).toContain("compute budget");
+    expect(await page.getAttribute("#result", "class")).toContain("stale");
+    await page.close();
+  });
+});
+
 describe("storage failing while freezing", () => {
   it("keeps the result on screen and says it has no link yet, without marking the inputs", async () => {
     const page = await newPage();
