@@ -245,11 +245,6 @@ export function overdosingShares(
   };
 }
 
-/** Every scenario of a plan, each from its own seeded stream. */
-export function simulateScenarios(scenarios: Scenario[], target: number, trials: number, seed: number, run: TrialRunner): OperatingCharacteristics[] {
-  return scenarios.map((s, i) => simulateScenario(s, target, trials, scenarioSeed(seed, i), run));
-}
-
 /** The fields of a simulated plan that set its streams. */
 interface SimulationPlan {
   target: number;
@@ -258,9 +253,9 @@ interface SimulationPlan {
   seed: number;
 }
 
-/** Simulates every scenario of a plan (its work is estimated before, by the design's cost). */
+/** Every scenario of a plan, each from its own seeded stream (its work is estimated before, by the design's cost). */
 export function simulatePlan(v: SimulationPlan, run: TrialRunner): OperatingCharacteristics[] {
-  return simulateScenarios(v.scenarios!, v.target, v.trials, v.seed, run);
+  return v.scenarios!.map((s, i) => simulateScenario(s, v.target, v.trials, scenarioSeed(v.seed, i), run));
 }
 
 /** Treats a cohort at a dose, drawing each patient's DLT from the true probability. */

@@ -31,6 +31,7 @@
 import type { CrmModelKind } from "./crmModel.js";
 import { gridPanelWidth } from "./crmPosterior.js";
 import { MIN_TRIALS } from "./doseFinding.js";
+import { SAFETY_FACTOR, formatCount } from "./workEstimate.js";
 
 /** The size of a simulated plan. */
 export interface SimulationSize {
@@ -75,8 +76,7 @@ export function simulationSize(v: { doses: string[]; maxSampleSize: number; coho
  */
 const FIRST_CALLS_MS = 30;
 
-const count = (n: number): string => n.toLocaleString("en-US");
-const plural = (n: number, one: string, many: string): string => `${count(n)} ${n === 1 ? one : many}`;
+const plural = (n: number, one: string, many: string): string => `${formatCount(n)} ${n === 1 ? one : many}`;
 
 /** Dose decisions of a trial that runs to its maximum sample size. */
 export function cohortDecisions(size: Pick<SimulationSize, "maxSampleSize" | "cohortSize">): number {
@@ -168,7 +168,7 @@ export function crmSimulationWork(size: SimulationSize, model: CrmCostModel): Co
   const nodes = 8 * crmPanelsPerUpdate(model);
   return {
     milliseconds: CRM_SAFETY * (FIRST_CALLS_MS + CRM_SETUP_MS + CRM_SETUP_MS_PER_DOSE * size.doseCount + (decisions * crmDecisionMicroseconds(size.doseCount, size.maxSampleSize, model)) / 1000),
-    breakdown: `${simulatedTrials(size)}, each decision a posterior by up to ${count(Math.round(nodes))} quadrature nodes`,
+    breakdown: `${simulatedTrials(size)}, each decision a posterior by up to ${formatCount(nodes)} quadrature nodes`,
   };
 }
 
@@ -184,13 +184,12 @@ const BOIN_DECISION_US = 0.03;
 const BOIN_PATIENT_US = 0.04;
 /** The decision table, up to 150 patients at a dose (2.4 ms at most). */
 const BOIN_SETUP_MS = 3;
-const BOIN_SAFETY = 1.5;
 
 /** CPU milliseconds of a BOIN simulation, and how they were counted. */
 export function boinSimulationWork(size: SimulationSize): CountedWork {
   const trialUs = BOIN_TRIAL_US + BOIN_DOSE_US * size.doseCount + BOIN_DECISION_US * cohortDecisions(size) + BOIN_PATIENT_US * size.maxSampleSize;
   return {
-    milliseconds: BOIN_SAFETY * (FIRST_CALLS_MS + BOIN_SETUP_MS + (size.scenarioCount * size.trials * trialUs) / 1000),
+    milliseconds: SAFETY_FACTOR * (FIRST_CALLS_MS + BOIN_SETUP_MS + (size.scenarioCount * size.trials * trialUs) / 1000),
     breakdown: simulatedTrials(size),
   };
 }
@@ -203,14 +202,13 @@ export function boinSimulationWork(size: SimulationSize): CountedWork {
  */
 const THREE_PLUS_THREE_SEQUENCE_US = 25;
 const THREE_PLUS_THREE_FIXED_MS = 10;
-const THREE_PLUS_THREE_SAFETY = 1.5;
 
 /** CPU milliseconds of the exact 3+3 enumeration over `doseCount` doses. */
 export function threePlusThreeWork(doseCount: number): CountedWork {
   const sequences = 2 ** doseCount;
   return {
-    milliseconds: THREE_PLUS_THREE_SAFETY * (THREE_PLUS_THREE_FIXED_MS + (sequences * THREE_PLUS_THREE_SEQUENCE_US) / 1000),
-    breakdown: `an exact enumeration of the 3+3 over ${plural(doseCount, "dose", "doses")}: at most ${count(sequences)} sequences of cohort outcomes`,
+    milliseconds: SAFETY_FACTOR * (THREE_PLUS_THREE_FIXED_MS + (sequences * THREE_PLUS_THREE_SEQUENCE_US) / 1000),
+    breakdown: `an exact enumeration of the 3+3 over ${plural(doseCount, "dose", "doses")}: at most ${formatCount(sequences)} sequences of cohort outcomes`,
   };
 }
 
