@@ -6,9 +6,10 @@
  *   its throughput is the ceiling of the runtime, wrangler dev's proxy and the
  *   load generator on this machine; the other routes are read against it.
  * - cached permalink, HTML, JSON and PDF (GET /c/{id}[.json|.pdf]): one frozen
- *   calculation read again and again, what a shared link costs. HTML and JSON
- *   read the record from KV and verify its digest; HTML also builds and renders
- *   the report; the PDF, drawn once before the run, comes back from KV.
+ *   calculation read again and again, what a shared link costs. After its
+ *   first read the Worker keeps the verified record and the drawn page in
+ *   memory, so HTML and JSON touch no storage; the PDF, drawn once before the
+ *   run, comes back from KV.
  * - fresh calculations (POST /api/v1/designs/{id}/calculations), one scenario
  *   per design: its example under a new label each request, so every answer is
  *   validated, computed, sealed and stored (201), never served from the store.
@@ -106,14 +107,14 @@ function readScenarios(options: LoadOptions, id: string): Scenario[] {
 
 /**
  * What a cached permalink is made of, beside the trivial route: the record
- * read and its digest checked without a body (a revalidation answered 304), a
+ * found in memory and answered without a body (a revalidation, 304), a
  * storage read that finds nothing (404), and a JSON body built in memory
  * without storage (the design's description).
  */
 function explainScenarios(options: LoadOptions, id: string, digest: string, design: CatalogEntry): Scenario[] {
   const sizes = readSizes(options);
   return [
-    { name: "permalink JSON revalidated (304: KV read, digest, no body)", ...sizes, request: { method: "GET", path: `/c/${id}.json`, headers: { "if-none-match": `"${digest}"` } }, unexpected: expectStatus(304, "not 304") },
+    { name: "permalink JSON revalidated (304: from memory, no body)", ...sizes, request: { method: "GET", path: `/c/${id}.json`, headers: { "if-none-match": `"${digest}"` } }, unexpected: expectStatus(304, "not 304") },
     { name: "unknown permalink (404: KV read, nothing found)", ...sizes, request: { method: "GET", path: `/c/c_${"0".repeat(32)}.json` }, unexpected: expectStatus(404, "not 404") },
     { name: "design description (JSON from memory, no KV)", ...sizes, request: { method: "GET", path: `/api/v1/designs/${design.id}` }, unexpected: expectStatus(200, "not 200") },
   ];
