@@ -107,6 +107,7 @@ export function checks(results: ScenarioResult[], names: Comparison): Check[] {
   const { html, json } = ratios(results, names);
   const best = Math.max(html, json);
   return [
+    // autocannon counts every timeout among the errors as well.
     every(results, "no connection errors or timeouts", (r) => r.errors),
     every(results, "no 5xx answers", (r) => r.serverErrors),
     every(results, "no non-2xx answers", (r) => r.non2xx),
