@@ -74,18 +74,19 @@ export function ratios(results: ScenarioResult[], names: Comparison): Ratios {
   return { html: over(names.html), json: over(names.json), pdf: over(names.pdf) };
 }
 
+/** CPU milliseconds an answer costs on this machine, Worker and load generator together; undefined without the Worker's CPU time. */
+function cpuPerAnswer(r: ScenarioResult): number | undefined {
+  return r.workerCpuMsPerRequest === undefined ? undefined : r.workerCpuMsPerRequest + r.generatorCpuMsPerRequest;
+}
+
 /**
- * CPU per answer (Worker and load generator) of the trivial route over each
- * cached permalink's: the throughput ratio when the processor is the limit and
- * nothing else competes for it, so it varies less with the machine's other work.
- * Undefined without the Worker's CPU time.
+ * CPU per answer of the trivial route over each cached permalink's: the
+ * throughput ratio when the processor is the limit and nothing else competes
+ * for it, so it varies less with the machine's other work. Undefined without
+ * the Worker's CPU time.
  */
 export function cpuRatios(results: ScenarioResult[], names: Comparison): Ratios | undefined {
-  const cost = (name: string): number | undefined => {
-    const r = find(results, name);
-    return r.workerCpuMsPerRequest === undefined ? undefined : r.workerCpuMsPerRequest + r.generatorCpuMsPerRequest;
-  };
-  const [trivial, html, json, pdf] = [names.trivial, names.html, names.json, names.pdf].map(cost);
+  const [trivial, html, json, pdf] = [names.trivial, names.html, names.json, names.pdf].map((name) => cpuPerAnswer(find(results, name)));
   if (trivial === undefined || html === undefined || json === undefined || pdf === undefined) return undefined;
   return { html: trivial / html, json: trivial / json, pdf: trivial / pdf };
 }
@@ -128,7 +129,7 @@ export function checks(results: ScenarioResult[], names: Comparison): Check[] {
  */
 export function formatBreakdown(results: ScenarioResult[], trivialName: string): string {
   const trivial = find(results, trivialName);
-  const cost = (r: ScenarioResult): number => (r.workerCpuMsPerRequest ?? Number.NaN) + r.generatorCpuMsPerRequest;
+  const cost = (r: ScenarioResult): number => cpuPerAnswer(r) ?? Number.NaN;
   const rows = results.map((r) => [
     r.name.padEnd(58),
     r.requestsPerSecond.toFixed(0).padStart(7),
