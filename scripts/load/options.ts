@@ -41,6 +41,8 @@ const QUICK = {
   freshConnections: 2, freshAmount: 10, freshDurationSeconds: 5, freshWarmup: 1,
 } satisfies Sizes;
 
+const DEFAULT_PERMALINK_DESIGN = "two-means";
+
 /** Flag name and environment variable of each numeric size. */
 const NAMES: Record<keyof Sizes, [flag: string, variable: string]> = {
   connections: ["connections", "LOAD_CONNECTIONS"],
@@ -59,19 +61,19 @@ const MAY_BE_ZERO = new Set<keyof Sizes>(["warmup", "freshWarmup"]);
 
 export const USAGE = `npm run load [-- options]
 
-  --quick                  smoke run (small sizes), also LOAD_QUICK=1
+  --quick                  a short run with small sizes that still tries every scenario (LOAD_QUICK=1)
   --explain                also time what a cached permalink is made of (LOAD_EXPLAIN=1)
   --connections N          connections for the trivial route and cached permalinks (LOAD_CONNECTIONS, default ${FULL.connections})
   --amount N               at most N measured requests per such scenario (LOAD_AMOUNT, default ${FULL.amount})
   --duration S             and at most S seconds (LOAD_DURATION, default ${FULL.durationSeconds})
   --warmup N               unmeasured requests before each (LOAD_WARMUP, default ${FULL.warmup})
-  --rounds N               run those four interleaved, each in N slices (LOAD_ROUNDS, default ${FULL.rounds})
+  --rounds N               run those scenarios interleaved, each in N slices (LOAD_ROUNDS, default ${FULL.rounds})
   --fresh-connections N    connections for fresh calculations (LOAD_FRESH_CONNECTIONS, default ${FULL.freshConnections})
   --fresh-amount N         at most N new calculations per design (LOAD_FRESH_AMOUNT, default ${FULL.freshAmount})
   --fresh-duration S       and at most S seconds per design (LOAD_FRESH_DURATION, default ${FULL.freshDurationSeconds})
   --fresh-warmup N         unmeasured calculations per design first (LOAD_FRESH_WARMUP, default ${FULL.freshWarmup})
   --designs a,b            only these designs' fresh calculations (LOAD_DESIGNS, default every design)
-  --permalink-design id    design of the frozen calculation behind the permalinks (LOAD_PERMALINK_DESIGN, default two-means)
+  --permalink-design id    design of the frozen calculation behind the permalinks (LOAD_PERMALINK_DESIGN, default ${DEFAULT_PERMALINK_DESIGN})
   --help                   this text`;
 
 function positive(name: string, text: string, allowZero: boolean): number {
@@ -107,5 +109,5 @@ export function parseOptions(argv: string[], env: NodeJS.ProcessEnv): LoadOption
   }
   const designs = (values.designs ?? env.LOAD_DESIGNS ?? "").split(",").map((d) => d.trim()).filter((d) => d !== "");
   const explain = values.explain === true || env.LOAD_EXPLAIN === "1";
-  return { quick, explain, ...sizes, designs, permalinkDesign: values["permalink-design"] ?? env.LOAD_PERMALINK_DESIGN ?? "two-means" };
+  return { quick, explain, ...sizes, designs, permalinkDesign: values["permalink-design"] ?? env.LOAD_PERMALINK_DESIGN ?? DEFAULT_PERMALINK_DESIGN };
 }
