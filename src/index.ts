@@ -33,26 +33,13 @@ app.route("/api/v1", healthRouter);
 app.route("/c", permalinkRouter);
 app.route("/", pagesRouter);
 
-app.notFound(async (c) => {
-  await discardBody(c.req.raw);
-  return problemResponse(c, new ProblemError(404, "not-found", "Not found", `Nothing is served at ${new URL(c.req.url).pathname}.`));
-});
+app.notFound((c) => problemResponse(c, new ProblemError(404, "not-found", "Not found", `Nothing is served at ${new URL(c.req.url).pathname}.`)));
 
-app.onError(async (error, c) => {
-  await discardBody(c.req.raw);
+app.onError((error, c) => {
   if (error instanceof ProblemError) return problemResponse(c, error);
   console.error(error);
   return problemResponse(c, new ProblemError(500, "internal-error", "Internal error", "The service failed while handling this request. The request was not stored."));
 });
-
-/**
- * A request refused before its body was read (wrong content type, declared too
- * large, unknown path) has the body cancelled, so the stream from the client
- * is released at once rather than left open until the request ends.
- */
-async function discardBody(request: Request): Promise<void> {
-  if (request.body && !request.bodyUsed && !request.body.locked) await request.body.cancel().catch(() => undefined);
-}
 
 export default app;
 export { CalculationLedger } from "./store/ledger.js";

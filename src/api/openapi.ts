@@ -30,9 +30,9 @@ const INPUT_PROBLEMS = {
   "429": problemResponse("Too many calculations from this client in a short time (only where the rate limit is configured); see Retry-After."),
 };
 
-const notFrozenResponse = (description: string) => ({
+const notFrozenResponse = (description: string, retryLater: boolean) => ({
   description,
-  headers: { "Retry-After": { description: "Seconds after which to send the request again.", schema: { type: "integer" } } },
+  ...(retryLater ? { headers: { "Retry-After": { description: "Seconds after which to send the request again.", schema: { type: "integer" } } } } : {}),
   content: { "application/problem+json": { schema: { $ref: "#/components/schemas/NotFrozenProblem" } } },
 });
 
@@ -72,8 +72,8 @@ export function openApiDocument(): Record<string, unknown> {
           "201": recordResponse("A new calculation was computed and frozen."),
           "200": recordResponse("The same request was frozen before; the stored record is returned."),
           ...INPUT_PROBLEMS,
-          "500": { ...notFrozenResponse("The record stored under this id failed its integrity check (`integrity-failure`); it is not served, and the calculation computed afresh is in `calculation`, not frozen."), headers: {} },
-          "503": notFrozenResponse("Storage failed (`storage-unavailable`): the calculation was computed and is in `calculation`, but it was not frozen and has no permalink. The same request sent again later freezes it under the same id."),
+          "500": notFrozenResponse("The record stored under this id failed its integrity check (`integrity-failure`); it is not served, and the calculation computed afresh is in `calculation`, not frozen.", false),
+          "503": notFrozenResponse("Storage failed (`storage-unavailable`): the calculation was computed and is in `calculation`, but it was not frozen and has no permalink. The same request sent again later freezes it under the same id.", true),
         },
       },
     };

@@ -10,7 +10,7 @@ import type { Env } from "../env.js";
 import { ProblemError } from "./problem.js";
 
 /** The binding's period (wrangler.toml `[ratelimits.simple]`), told to clients as Retry-After. */
-export const RATE_LIMIT_PERIOD_SECONDS = 60;
+const RATE_LIMIT_PERIOD_SECONDS = 60;
 
 export const rateLimitComputation: MiddlewareHandler<{ Bindings: Env }> = async (c, next) => {
   const limiter = c.env.COMPUTE_RATE_LIMITER;

@@ -29,9 +29,9 @@ export function computeFrozen(design: AnyDesign, inputs: unknown): unknown {
   } catch (error) {
     if (error instanceof OverBudgetError) throw overBudgetProblem(error);
     if (error instanceof InfeasibleDesignError) {
-      const named = [error.details.field, ...(Array.isArray(error.details.fields) ? error.details.fields : [])].filter((f): f is string => typeof f === "string");
+      const field = error.details.field;
       throw new ProblemError(422, "infeasible-design", "No design meets these constraints", error.message,
-        { ...error.details, errors: [...new Set(named)].map((name) => inputError(name, error.message)) });
+        { ...error.details, errors: typeof field === "string" ? [inputError(field, error.message)] : [] });
     }
     throw error;
   }
@@ -115,7 +115,7 @@ async function settle<T>(operation: Promise<T>): Promise<Settled<T>> {
 }
 
 /** Seconds after which a client may try storage again. */
-export const STORAGE_RETRY_SECONDS = 30;
+const STORAGE_RETRY_SECONDS = 30;
 
 function notFrozen(calculation: UnfrozenCalculation, error: StorageUnavailableError): ProblemError {
   console.error(error, error.cause);

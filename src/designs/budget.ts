@@ -17,7 +17,7 @@ export const COMPUTE_BUDGET_MS = 2500;
 /** A calculation whose estimated work is above the budget. */
 export class OverBudgetError extends Error {
   constructor(
-    readonly design: string,
+    design: string,
     readonly estimate: WorkEstimate,
   ) {
     super(`This ${design} calculation would need about ${formatSeconds(estimate.milliseconds)} of computing (${estimate.breakdown}), above the ${formatSeconds(COMPUTE_BUDGET_MS)} one calculation may take.` +

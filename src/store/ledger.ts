@@ -42,10 +42,9 @@ export class CalculationLedger implements DurableObject {
 }
 
 /** The ledger behind the Worker's Durable Object binding; any failure to reach it is StorageUnavailableError. */
-export function durableLedger(namespace: DurableObjectNamespace | undefined): RecordLedger {
+export function durableLedger(namespace: DurableObjectNamespace): RecordLedger {
   return {
     async claim(id, recordText) {
-      if (!namespace) throw new StorageUnavailableError("the ledger binding is not configured");
       let response: Response;
       try {
         response = await namespace.get(namespace.idFromName(id)).fetch("https://ledger.internal/claim", { method: "PUT", body: recordText });

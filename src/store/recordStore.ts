@@ -53,6 +53,19 @@ async function attempt<T>(what: string, operation: () => Promise<T>): Promise<T>
  */
 const verified = new BoundedCache<Extract<ReadOutcome, { status: "found" }>>(8 * 1024 * 1024);
 
+/**
+ * A remembered record is shared by every later request in this Worker, so it
+ * is frozen: code that changed it (a report sorting a result's array in place,
+ * say) would throw instead of silently altering what later readers are served.
+ */
+function deepFreeze<T>(value: T): T {
+  if (typeof value === "object" && value !== null && !Object.isFrozen(value)) {
+    Object.freeze(value);
+    for (const member of Object.values(value)) deepFreeze(member);
+  }
+  return value;
+}
+
 export class RecordStore {
   constructor(private readonly kv: KVNamespace) {}
 
@@ -66,7 +79,7 @@ export class RecordStore {
     const text = await attempt("the record could not be read", () => this.kv.get(recordKey(id), "text"));
     if (text === null) return { status: "missing" };
     const outcome = await verifyRecordText(id, text);
-    if (outcome.status === "found") verified.set(id, outcome, text.length * 4);
+    if (outcome.status === "found") verified.set(id, { ...outcome, record: deepFreeze(outcome.record) }, text.length * 4);
     return outcome;
   }
 
