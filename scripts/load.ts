@@ -28,6 +28,7 @@
 import { availableParallelism, cpus, loadavg } from "node:os";
 import { readFileSync } from "node:fs";
 import { resolve } from "node:path";
+import type { describeDesign } from "../src/api/designs.js";
 import { RENDERING_HEADER } from "../src/api/permalinks.js";
 import { type RunningWorker, startWorker } from "../test/browser/server.js";
 import { type LoadOptions, USAGE, parseOptions } from "./load/options.js";
@@ -40,11 +41,8 @@ const root = resolve(import.meta.dirname, "..");
 /** Long enough to average wrangler's periodic background work. */
 const IDLE_MEASURE_MS = 3000;
 
-interface CatalogEntry {
-  id: string;
-  example: unknown;
-  links: { calculations: string };
-}
+/** The parts of a catalog entry (GET /api/v1/designs) the load test reads. */
+type CatalogEntry = Pick<ReturnType<typeof describeDesign>, "id" | "example" | "links">;
 
 function header(headers: Record<string, string | string[]>, name: string): string | undefined {
   const key = Object.keys(headers).find((k) => k.toLowerCase() === name.toLowerCase());
