@@ -58,11 +58,15 @@ function version(pkg: string): string {
   return (JSON.parse(readFileSync(resolve(root, "node_modules", pkg, "package.json"), "utf8")) as { version: string }).version;
 }
 
+function loadAverage(): string {
+  return loadavg().map((l) => l.toFixed(2)).join(" ");
+}
+
 function describeMachine(): string {
   const cores = availableParallelism();
   return [
     `machine: ${cores} cores (${cpus()[0]?.model.trim() ?? "unknown processor"}), Node ${process.version}, wrangler ${version("wrangler")}, autocannon ${version("autocannon")}`,
-    `the load generator (this Node process, one thread) and the Worker (wrangler dev and workerd) share these ${cores} cores, with anything else running; load average at start ${loadavg().map((l) => l.toFixed(2)).join(" ")}`,
+    `the load generator (this Node process, one thread) and the Worker (wrangler dev and workerd) share these ${cores} cores, with anything else running; load average at start ${loadAverage()}`,
   ].join("\n");
 }
 
@@ -194,7 +198,7 @@ async function main(): Promise<number> {
     console.log(`\n${formatRatios("throughput over the trivial route's", ratios(results, COMPARISON))}`);
     const byCpu = cpuRatios(results, COMPARISON);
     if (byCpu) console.log(formatRatios("trivial route's CPU per answer over (Worker and load generator)", byCpu));
-    console.log(`load average at end ${loadavg().map((l) => l.toFixed(2)).join(" ")}\n`);
+    console.log(`load average at end ${loadAverage()}\n`);
     const outcome = checks(results, COMPARISON);
     printChecks(outcome);
     const failed = outcome.some((c) => !c.passed);
