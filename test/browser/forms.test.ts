@@ -25,6 +25,16 @@ async function settled(page: Page): Promise<void> {
   await page.waitForFunction(() => !document.getElementById("result")?.hasAttribute("aria-busy") && /Up to date|No result|No design|Fix the marked/.test(document.getElementById("status")?.textContent ?? ""), undefined, { timeout: 20000 });
 }
 
+/** Opens a design's page, types one value, and waits for the refusal the API answers with. */
+async function refusedAfterFilling(design: string, field: string, value: string): Promise<Page> {
+  const page = await newPage();
+  await page.goto(`${base}/design?id=${design}`);
+  await page.waitForSelector("#preview-head .key-facts");
+  await page.fill(`#f-${field}`, value);
+  await page.waitForSelector("#problem:not([hidden])", { timeout: 20000 });
+  return page;
+}
+
 /** Presses Tab until the element matching `selector` has focus; fails if it is not reachable. */
 async function tabTo(page: Page, selector: string, limit = 80): Promise<void> {
   for (let i = 0; i < limit; i += 1) {
@@ -130,14 +140,10 @@ describe("simon-two-stage from inputs to a frozen PDF", () => {
 describe("infeasible inputs", () => {
   it("show the 422 explanation and mark the field it names", async (ctx) => {
     if (!catalogIds.includes("simon-two-stage")) ctx.skip(true, "simon-two-stage is not in the catalog yet");
-    const page = await newPage();
-    await page.goto(`${base}/design?id=simon-two-stage`);
-    await page.waitForSelector("#preview-head .key-facts");
     // No two-stage design with at most 8 patients reaches power 0.8 at alpha 0.05 for p0 = 0.1, p1 = 0.3: the
     // smallest maximum size is the minimax design's n = 25 (Simon 1989, Table 1, from memory of the table).
     // The API answers 422 naming the field "maxN".
-    await page.fill("#f-maxN", "8");
-    await page.waitForSelector("#problem:not([hidden])", { timeout: 20000 });
+    const page = await refusedAfterFilling("simon-two-stage", "maxN", "8");
     expect(await page.textContent("#problem")).toContain("No design meets these constraints");
     expect(await page.isVisible("#err-maxN")).toBe(true);
     expect(await page.getAttribute("#f-maxN", "aria-invalid")).toBe("true");
@@ -148,12 +154,8 @@ describe("infeasible inputs", () => {
 
 describe("a calculation beyond the compute budget", () => {
   it("is explained above the result, with the fields to reduce marked", async () => {
-    const page = await newPage();
-    await page.goto(`${base}/design?id=crm`);
-    await page.waitForSelector("#preview-head .key-facts");
     // The example's 2 scenarios at the most trials the schema allows is estimated well beyond the budget (src/designs/shared/doseFindingCost.ts).
-    await page.fill("#f-trials", "20000");
-    await page.waitForSelector("#problem:not([hidden])", { timeout: 20000 });
+    const page = await refusedAfterFilling("crm", "trials", "20000");
     expect(await page.textContent("#problem")).toContain("more computing than one request may use");
     expect(await page.textContent("#status")).toContain("more computing");
     expect(await page.getAttribute("#f-trials", "aria-invalid")).toBe("true");
