@@ -16,7 +16,6 @@ declare module "autocannon" {
     url: string;
     connections: number;
     amount?: number;
-    duration?: number;
     timeout?: number;
     sampleInt?: number;
     requests?: Request[];

@@ -85,7 +85,7 @@ export function percentile(sorted: number[], p: number): number {
 const activeRuns = new Set<Instance>();
 let stopped = false;
 
-export class LoadInterrupted extends Error {
+class LoadInterrupted extends Error {
   constructor() {
     super("interrupted: the load was stopped before its end");
     this.name = "LoadInterrupted";
@@ -189,7 +189,7 @@ export function stopScenarios(): void {
  * 1/rounds slice (in requests and in time) of every scenario in turn. Results
  * come in the order of `scenarios`.
  */
-export async function runScenarios(url: string, scenarios: Scenario[], rounds: number, worker: WorkerProcesses, onProgress: (what: string) => void = () => {}): Promise<ScenarioResult[]> {
+export async function runScenarios(url: string, scenarios: Scenario[], rounds: number, worker: WorkerProcesses, onProgress: (what: string) => void): Promise<ScenarioResult[]> {
   for (const scenario of scenarios) {
     if (stopped) throw new LoadInterrupted();
     if (scenario.warmup > 0) await drive(url, scenario, scenario.warmup, scenario.durationSeconds, emptyTally());
