@@ -20,7 +20,7 @@
 import { z } from "zod";
 import { type Design, InfeasibleDesignError, type WorkEstimate } from "./design.js";
 import type { Block, Fact, Section } from "../report/document.js";
-import { checkResponseRates, responseRateFields } from "./shared/responseRates.js";
+import { TARGET_SLACK, checkResponseRates, responseRateFields } from "./shared/responseRates.js";
 import { type AdmissibleCandidate, searchCanSucceed, searchSimon, searchTermsBound, surelyFindsDesign } from "./shared/simonSearch.js";
 import {
   TWO_STAGE_MAX_N, type TwoStagePoint, type TwoStageRule, type TwoStageSummary, evaluateTwoStage, rateGrid, summarizeTwoStage,
@@ -152,7 +152,7 @@ export function computeSimonTwoStage(input: SimonTwoStageInput): SimonTwoStageRe
       minimax: null,
       admissible: [],
       design,
-      meetsTargets: design.alpha <= input.alpha + 1e-12 && design.power >= input.power - 1e-12,
+      meetsTargets: design.alpha <= input.alpha + TARGET_SLACK && design.power >= input.power - TARGET_SLACK,
       curves: [{ name: describeTwoStage(rule), points: curve(rule) }],
       atRequestedRates: input.trueRates.map((p) => evaluateTwoStage(rule, p)),
     };

@@ -18,7 +18,7 @@
 import { z } from "zod";
 import { type Design, InfeasibleDesignError, type WorkEstimate } from "./design.js";
 import type { Section } from "../report/document.js";
-import { checkResponseRates, responseRateFields } from "./shared/responseRates.js";
+import { TARGET_SLACK, checkResponseRates, responseRateFields } from "./shared/responseRates.js";
 import { binomialUpperTails as upperTails, rateGrid } from "./shared/twoStage.js";
 import { smallestSizeForPower } from "./shared/powerCeiling.js";
 import { type SingleStageRule, singleStageRuleAt } from "./shared/singleStageRule.js";
@@ -27,7 +27,6 @@ import { formatCount, workEstimate } from "./shared/workEstimate.js";
 
 /** Sizes beyond this are not searched (p0 and p1 a few points apart need thousands). */
 export const SINGLE_STAGE_MAX_N = 5000;
-const SLACK = 1e-12;
 
 const schema = z.strictObject({ ...responseRateFields }).superRefine(checkResponseRates);
 
@@ -71,10 +70,10 @@ export function computeSingleStageBinomial(input: SingleStageBinomialInput): Sin
   const { p0, p1, alpha, power } = input;
   let found: SingleStageRule | undefined;
   // No non-randomized test beats the randomized most powerful one at the same n.
-  const start = smallestSizeForPower(SINGLE_STAGE_MAX_N, p0, p1, alpha + SLACK, power - SLACK) ?? SINGLE_STAGE_MAX_N + 1;
+  const start = smallestSizeForPower(SINGLE_STAGE_MAX_N, p0, p1, alpha + TARGET_SLACK, power - TARGET_SLACK) ?? SINGLE_STAGE_MAX_N + 1;
   for (let n = start; n <= SINGLE_STAGE_MAX_N && !found; n++) {
     const rule = singleStageRuleAt(n, p0, p1, alpha);
-    if (rule.power >= power - SLACK) found = rule;
+    if (rule.power >= power - TARGET_SLACK) found = rule;
   }
   if (!found) {
     throw new InfeasibleDesignError(
@@ -85,7 +84,7 @@ export function computeSingleStageBinomial(input: SingleStageBinomialInput): Sin
   const nearbySizes = [];
   for (let n = found.n; n <= Math.min(SINGLE_STAGE_MAX_N, found.n + 10); n++) {
     const rule = singleStageRuleAt(n, p0, p1, alpha);
-    nearbySizes.push({ ...rule, meetsTargets: rule.power >= power - SLACK });
+    nearbySizes.push({ ...rule, meetsTargets: rule.power >= power - TARGET_SLACK });
   }
   const r = found.r;
   const curve = rateGrid(p0, p1).map((p): [number, number] => [p, upperTails(found.n, p)[r]!]);

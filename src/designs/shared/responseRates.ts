@@ -6,10 +6,18 @@
 import { z } from "zod";
 import { probabilityField } from "./fields.js";
 
+/**
+ * Every response-rate design meets its alpha and power targets within this
+ * absolute slack, so that rounding in the last digits of an exact tail does not
+ * flip a design on its boundary; the searches and the rules they compare with
+ * must share it.
+ */
+export const TARGET_SLACK = 1e-12;
+
 export const responseRateFields = {
   p0: probabilityField("Response rate too low to be of interest (the null rate p0), as a proportion between 0 and 1: a drug this active should be stopped."),
   p1: probabilityField("Response rate worth pursuing (the target rate p1), as a proportion between 0 and 1; it must exceed p0."),
-  // Exact tails are summed to about 1e-12 and constraints are met within 1e-12,
+  // Exact tails are summed to about 1e-12 and constraints are met within TARGET_SLACK,
   // so an alpha or a 1 - power below 1e-6 would be decided by rounding.
   alpha: z.number().min(1e-6, "Alpha must be at least 0.000001: smaller error rates are below the precision of the exact search.").max(0.5).default(0.05)
     .describe("Largest accepted probability of declaring the drug promising when its true response rate is p0 (one-sided type I error)."),

@@ -31,6 +31,7 @@ import { binomialPmfArray } from "../../stats/binomial.js";
 import { binomialUpperTails, type TwoStageRule } from "./twoStage.js";
 import { mostPowerfulTestPower } from "./powerCeiling.js";
 import { singleStageRuleAt } from "./singleStageRule.js";
+import { TARGET_SLACK } from "./responseRates.js";
 
 export interface SimonTargets {
   p0: number;
@@ -57,8 +58,6 @@ export interface SimonSearchResult {
   admissible: AdmissibleCandidate[];
 }
 
-const SLACK = 1e-12;
-
 /**
  * The optimal, minimax and admissible designs; null when no design up to maxN meets the targets.
  *
@@ -70,8 +69,8 @@ const SLACK = 1e-12;
  */
 export function searchSimon(t: SimonTargets, smallestN = 1): SimonSearchResult | null {
   const { p0, p1, maxN } = t;
-  const alphaLimit = t.alpha + SLACK;
-  const powerLimit = t.power - SLACK;
+  const alphaLimit = t.alpha + TARGET_SLACK;
+  const powerLimit = t.power - TARGET_SLACK;
   if (smallestN > maxN || !searchCanSucceed(t)) return null;
   const tails0: Float64Array[] = [];
   const tails1: Float64Array[] = [];
@@ -133,7 +132,7 @@ export function searchSimon(t: SimonTargets, smallestN = 1): SimonSearchResult |
 
 /** Whether a search up to t.maxN can run at all: the most powerful test on maxN patients reaches the power. */
 export function searchCanSucceed(t: SimonTargets): boolean {
-  return mostPowerfulTestPower(t.maxN, t.p0, t.p1, t.alpha + SLACK) >= t.power - SLACK;
+  return mostPowerfulTestPower(t.maxN, t.p0, t.p1, t.alpha + TARGET_SLACK) >= t.power - TARGET_SLACK;
 }
 
 /** How many of the largest sizes up to maxN surelyFindsDesign tries (each two binomial distributions). */
@@ -151,7 +150,7 @@ const WITNESS_SIZES = 8;
 export function surelyFindsDesign(t: SimonTargets): boolean {
   for (let n = t.maxN; n >= Math.max(2, t.maxN - WITNESS_SIZES + 1); n--) {
     // Met without the search's 1e-12 slack, so that rounding in its sums cannot undo the witness.
-    const rule = singleStageRuleAt(n, t.p0, t.p1, t.alpha - 2 * SLACK);
+    const rule = singleStageRuleAt(n, t.p0, t.p1, t.alpha - 2 * TARGET_SLACK);
     if (rule.r >= 2 && rule.r <= n && rule.power >= t.power) return true;
   }
   return false;

@@ -5,8 +5,7 @@
  * (within an absolute 1e-12), which makes it the most powerful at that n.
  */
 import { binomialUpperTails } from "./twoStage.js";
-
-const SLACK = 1e-12;
+import { TARGET_SLACK } from "./responseRates.js";
 
 export interface SingleStageRule {
   n: number;
@@ -20,6 +19,6 @@ export interface SingleStageRule {
 export function singleStageRuleAt(n: number, p0: number, p1: number, alpha: number): SingleStageRule {
   const t0 = binomialUpperTails(n, p0);
   let r = 0;
-  while (t0[r]! > alpha + SLACK) r++;
+  while (t0[r]! > alpha + TARGET_SLACK) r++;
   return { n, r, alpha: t0[r]!, power: binomialUpperTails(n, p1)[r]! };
 }
