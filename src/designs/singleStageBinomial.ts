@@ -27,6 +27,8 @@ import { formatCount, workEstimate } from "./shared/workEstimate.js";
 
 /** Sizes beyond this are not searched (p0 and p1 a few points apart need thousands). */
 export const SINGLE_STAGE_MAX_N = 5000;
+/** Sizes listed after the chosen one, since exact power is saw-toothed in n. */
+const NEARBY_SIZES = 10;
 
 const schema = z.strictObject({ ...responseRateFields }).superRefine(checkResponseRates);
 
@@ -42,10 +44,10 @@ export interface SingleStageBinomialResult extends SingleStageRule {
  * running it (exact power is saw-toothed), and finding where it starts costs
  * as much as a good part of it, so the estimate is the most any input can
  * take: every size up to SINGLE_STAGE_MAX_N scanned with two binomial
- * distributions each, then the start's bisection (13 sizes), the nearby sizes
- * (11) and the curve (53 rates) at the largest size, also two distributions
- * each. About 26 million binomial terms in all: far inside the budget, so no
- * input is refused.
+ * distributions each, then the start's bisection (⌈log2 5,000⌉ = 13 sizes),
+ * the nearby sizes (11) and the curve (53 rates: the grid with p0 and p1) at
+ * the largest size, also two distributions each. About 26 million binomial
+ * terms in all: far inside the budget, so no input is refused.
  *
  * Constant from `npm run bench designs` (the single-stage-binomial heaviest
  * cases, median CPU over 3 runs while other work shared the machine): the
@@ -54,11 +56,9 @@ export interface SingleStageBinomialResult extends SingleStageRule {
  * taken. The heaviest inputs found reach half the counted maximum.
  */
 const MS_PER_TERM = 12.5e-6;
-const WORST_CASE_TERMS = (() => {
-  let scan = 0;
-  for (let n = 1; n <= SINGLE_STAGE_MAX_N; n++) scan += 2 * (n + 1);
-  return scan + 2 * (13 + 11 + 53) * (SINGLE_STAGE_MAX_N + 1);
-})();
+const LARGEST_SIZE_EVALUATIONS = Math.ceil(Math.log2(SINGLE_STAGE_MAX_N)) + (NEARBY_SIZES + 1) + (rateGrid().length + 2);
+// Σ 2(n + 1) for n = 1..N is N(N + 3).
+const WORST_CASE_TERMS = SINGLE_STAGE_MAX_N * (SINGLE_STAGE_MAX_N + 3) + 2 * LARGEST_SIZE_EVALUATIONS * (SINGLE_STAGE_MAX_N + 1);
 
 export function costSingleStageBinomial(): WorkEstimate {
   return workEstimate([
@@ -82,7 +82,7 @@ export function computeSingleStageBinomial(input: SingleStageBinomialInput): Sin
     );
   }
   const nearbySizes = [];
-  for (let n = found.n; n <= Math.min(SINGLE_STAGE_MAX_N, found.n + 10); n++) {
+  for (let n = found.n; n <= Math.min(SINGLE_STAGE_MAX_N, found.n + NEARBY_SIZES); n++) {
     const rule = singleStageRuleAt(n, p0, p1, alpha);
     nearbySizes.push({ ...rule, meetsTargets: rule.power >= power - TARGET_SLACK });
   }
