@@ -39,8 +39,7 @@ import { type ArmSizes, armsFromControl, curveSizes, detectableEffect } from "./
 import { designSection } from "./shared/reportSections.js";
 import { closingSections } from "./shared/comparativeSections.js";
 import { checkComparativeCommon, comparativeCommonFields } from "./shared/fields.js";
-import { groupSequentialWork } from "./shared/groupSequentialCost.js";
-import { type WorkPart, workEstimate } from "./shared/workEstimate.js";
+import { withInterimLooks } from "./shared/groupSequentialCost.js";
 import {
   type InterimLooksResult, interimLooksField, planInterimLooks, refineInterimTest,
 } from "./shared/interimLooks.js";
@@ -282,9 +281,7 @@ const FIXED_DESIGN_MS = 1;
  * grows. Well within the budget for any admitted input, so no input is refused.
  */
 export function costTimeToEvent(input: TimeToEventInput): WorkEstimate {
-  const parts: WorkPart[] = [{ count: 1, msEach: FIXED_DESIGN_MS, what: "fixed design (closed forms, a calendar-time root and the curves)" }];
-  if (input.interimLooks) parts.push(groupSequentialWork(input.interimLooks.looks, input.interimLooks.futilityBoundary !== "none"));
-  return workEstimate(parts, input.interimLooks ? ["interimLooks"] : []);
+  return withInterimLooks([{ count: 1, msEach: FIXED_DESIGN_MS, what: "fixed design (closed forms, a calendar-time root and the curves)" }], input.interimLooks);
 }
 
 export function computeTimeToEvent(input: TimeToEventInput): TimeToEventResult {

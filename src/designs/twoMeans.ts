@@ -29,8 +29,7 @@ import {
 } from "./shared/sizing.js";
 import { comparativeCommonFields } from "./shared/fields.js";
 import { NORMAL_POWER_MS, T_POWER_MS, sizingEvaluations, sizingWords } from "./shared/sizingCost.js";
-import { groupSequentialWork } from "./shared/groupSequentialCost.js";
-import { type WorkPart, workEstimate } from "./shared/workEstimate.js";
+import { withInterimLooks } from "./shared/groupSequentialCost.js";
 import { type InterimLooksResult, interimLooksField, planInterimLooks, refineInterimTest } from "./shared/interimLooks.js";
 import { designSection } from "./shared/reportSections.js";
 import { type TwoArmCounts, closingSections, twoArmCounts, powerCurveChart, powerCurveTable, twoArmFacts, twoArmTable } from "./shared/comparativeSections.js";
@@ -185,9 +184,7 @@ export function costTwoMeans(input: TwoMeansInput): WorkEstimate {
     : exact ? { msEach: T_POWER_MS, what: "evaluations of the noncentral t power" } : { msEach: NORMAL_POWER_MS, what: "evaluations of the normal power" };
   // Solving an equivalence difference first checks the power at no difference.
   const count = sizingEvaluations(input.solveFor, MAX_PER_ARM) + (equivalence && input.solveFor === "difference" ? 1 : 0);
-  const parts: WorkPart[] = [{ count, msEach: kernel.msEach, what: `${kernel.what}: ${sizingWords(input.solveFor, MAX_PER_ARM, "per control arm")}` }];
-  if (input.interimLooks) parts.push(groupSequentialWork(input.interimLooks.looks, input.interimLooks.futilityBoundary !== "none"));
-  return workEstimate(parts, input.interimLooks ? ["interimLooks"] : []);
+  return withInterimLooks([{ count, msEach: kernel.msEach, what: `${kernel.what}: ${sizingWords(input.solveFor, MAX_PER_ARM, "per control arm")}` }], input.interimLooks);
 }
 
 export function computeTwoMeans(input: TwoMeansInput): TwoMeansResult {

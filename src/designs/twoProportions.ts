@@ -45,7 +45,7 @@ import { type ProportionsTest, nullDifference, twoProportionsPower } from "./sha
 import { type InterimLooksResult, interimLooksField, planInterimLooks, refineInterimTest } from "./shared/interimLooks.js";
 import { designSection } from "./shared/reportSections.js";
 import { EFFECT_CURVE_EVALUATIONS, NORMAL_POWER_MS, POWER_CURVE_EVALUATIONS, sizingEvaluations, sizingWords } from "./shared/sizingCost.js";
-import { groupSequentialWork } from "./shared/groupSequentialCost.js";
+import { withInterimLooks } from "./shared/groupSequentialCost.js";
 import { type WorkPart, workEstimate } from "./shared/workEstimate.js";
 import { type TwoArmCounts, closingSections, twoArmCounts, effectCurveChart, powerCurveChart, powerCurveTable, twoArmFacts, twoArmTable } from "./shared/comparativeSections.js";
 
@@ -265,8 +265,8 @@ const DETECTABLE_PROPORTION_EVALUATIONS = 2 + Math.ceil(Math.log2(2 / PROPORTION
  * admitted input is estimated above about 0.45 s and none is refused.
  */
 export function costTwoProportions(input: TwoProportionsInput): WorkEstimate {
-  const parts: WorkPart[] = [];
   if (input.method === "fisher-exact") {
+    const parts: WorkPart[] = [];
     const ratio = input.allocationRatio;
     let terms = 0;
     let words: string;
@@ -294,9 +294,7 @@ export function costTwoProportions(input: TwoProportionsInput): WorkEstimate {
     ? DETECTABLE_PROPORTION_EVALUATIONS + 1 + POWER_CURVE_EVALUATIONS
     : sizingEvaluations(input.solveFor, MAX_PER_ARM);
   const why = input.solveFor === "difference" ? "a bisection for the proportion and the power curve" : sizingWords(input.solveFor, MAX_PER_ARM, "per control arm");
-  parts.push({ count: count + EFFECT_CURVE_EVALUATIONS, msEach: NORMAL_POWER_MS, what: `evaluations of the normal power: ${why}, and the effect curve` });
-  if (input.interimLooks) parts.push(groupSequentialWork(input.interimLooks.looks, input.interimLooks.futilityBoundary !== "none"));
-  return workEstimate(parts, input.interimLooks ? ["interimLooks"] : []);
+  return withInterimLooks([{ count: count + EFFECT_CURVE_EVALUATIONS, msEach: NORMAL_POWER_MS, what: `evaluations of the normal power: ${why}, and the effect curve` }], input.interimLooks);
 }
 
 export function computeTwoProportions(input: TwoProportionsInput): TwoProportionsResult {

@@ -15,7 +15,9 @@
  * without futility and 3.8 to 6.9 ms with it while other work shared the
  * machine (wall-clock medians reached twice that under the heaviest load).
  */
-import type { WorkPart } from "./workEstimate.js";
+import type { WorkEstimate } from "../design.js";
+import type { InterimLooksInput } from "./interimLooks.js";
+import { type WorkPart, workEstimate } from "./workEstimate.js";
 
 const MS_PER_LOOK = 5.5;
 const MS_PER_LOOK_WITH_FUTILITY = 8;
@@ -27,4 +29,10 @@ export function groupSequentialWork(looks: number, futility: boolean, which = "l
     msEach: futility ? MS_PER_LOOK_WITH_FUTILITY : MS_PER_LOOK,
     what: `${which} of group-sequential boundaries${futility ? " with futility" : ""} (recursive numerical integration)`,
   };
+}
+
+/** A comparative design's estimate from its own parts, adding the boundaries of its interim looks (and the field to reduce) when it has them. */
+export function withInterimLooks(parts: WorkPart[], interimLooks: InterimLooksInput | undefined): WorkEstimate {
+  if (!interimLooks) return workEstimate(parts, []);
+  return workEstimate([...parts, groupSequentialWork(interimLooks.looks, interimLooks.futilityBoundary !== "none")], ["interimLooks"]);
 }
