@@ -29,7 +29,7 @@ import { availableParallelism, cpus, loadavg } from "node:os";
 import { readFileSync } from "node:fs";
 import { resolve } from "node:path";
 import type { describeDesign } from "../src/api/designs.js";
-import { RENDERING_HEADER } from "../src/api/permalinks.js";
+import { RENDERING_HEADER } from "../src/api/renderingHeader.js";
 import { type RunningWorker, startWorker } from "../test/browser/server.js";
 import { type LoadOptions, USAGE, parseOptions } from "./load/options.js";
 import { type Check, type Comparison, checks, cpuRatios, formatBreakdown, formatRatios, formatTable, formatUnexpected, ratios } from "./load/report.js";

@@ -5,7 +5,7 @@
  * are exposed.
  */
 import type { cors } from "hono/cors";
-import { RENDERING_HEADER } from "./permalinks.js";
+import { RENDERING_HEADER } from "./renderingHeader.js";
 
 export const API_CORS = {
   origin: "*",

@@ -19,13 +19,12 @@ import { RecordStore } from "../store/recordStore.js";
 import { BoundedCache } from "../store/boundedCache.js";
 import { JSON_TYPE, requireId } from "./calculations.js";
 import { ProblemError } from "./problem.js";
+import { RENDERING_HEADER } from "./renderingHeader.js";
 import { loadRecord } from "./service.js";
 
 const IMMUTABLE = "public, max-age=31536000, immutable";
 /** Bump when the PDF layout changes, so cached renderings of old layouts are not served. */
 export const PDF_RENDERING_VERSION = 2;
-/** Response header telling whether a PDF came from the rendering cache ("cached") or was drawn for this request ("rendered"). */
-export const RENDERING_HEADER = "X-Trialwright-Rendering";
 /** The page forbids every script and every request outside itself; a second guard behind escaping. */
 const HTML_POLICY = "default-src 'none'; style-src 'unsafe-inline'; img-src data:; base-uri 'none'; form-action 'none'; frame-ancestors 'none'";
 

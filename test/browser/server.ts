@@ -33,7 +33,7 @@ async function waitUntilServing(url: string, child: ChildProcess, log: () => str
   while (Date.now() < deadline) {
     if (child.exitCode !== null) throw new Error(`wrangler dev exited with code ${child.exitCode}:\n${log()}`);
     try {
-      const response = await fetch(`${url}/api/v1/designs`);
+      const response = await fetch(`${url}/api/v1/health`);
       if (response.ok) return;
     } catch {
       // not listening yet
