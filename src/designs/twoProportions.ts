@@ -46,7 +46,7 @@ import { type InterimLooksResult, interimLooksField, planInterimLooks, refineInt
 import { designSection } from "./shared/reportSections.js";
 import { EFFECT_CURVE_EVALUATIONS, NORMAL_POWER_MS, POWER_CURVE_EVALUATIONS, sizingEvaluations, sizingWords } from "./shared/sizingCost.js";
 import { withInterimLooks } from "./shared/groupSequentialCost.js";
-import { type WorkPart, workEstimate } from "./shared/workEstimate.js";
+import { workEstimate } from "./shared/workEstimate.js";
 import { type TwoArmCounts, closingSections, twoArmCounts, effectCurveChart, powerCurveChart, powerCurveTable, twoArmFacts, twoArmTable } from "./shared/comparativeSections.js";
 
 const MAX_PER_ARM = 100000;
@@ -266,17 +266,17 @@ const DETECTABLE_PROPORTION_EVALUATIONS = 2 + Math.ceil(Math.log2(2 / PROPORTION
  */
 export function costTwoProportions(input: TwoProportionsInput): WorkEstimate {
   if (input.method === "fisher-exact") {
-    const parts: WorkPart[] = [];
     const ratio = input.allocationRatio;
     let terms = 0;
     let words: string;
+    let normalEvaluations: number;
     if (input.solveFor === "sample-size") {
       const maximum = controlLimit(EXACT_SEARCH_MAX_PER_ARM, ratio);
       for (let n1 = 2; n1 <= maximum; n1++) terms += fisherTerms(n1, armsFromControl(n1, ratio).n2);
       const largest = armsFromControl(maximum, ratio);
       terms += EXACT_EFFECT_CURVE_POINTS * fisherTerms(largest.n1, largest.n2);
       words = `every control-arm size from 2 to ${maximum} and the effect curve`;
-      parts.push({ count: maximum, msEach: NORMAL_POWER_MS, what: "evaluations of the normal power beside it" });
+      normalEvaluations = maximum;
     } else {
       const n1 = input.n1!, n2 = input.n2!;
       terms += (1 + EXACT_EFFECT_CURVE_POINTS) * fisherTerms(n1, n2);
@@ -285,10 +285,12 @@ export function costTwoProportions(input: TwoProportionsInput): WorkEstimate {
         if (arms.n2 <= EXACT_MAX_PER_ARM) terms += fisherTerms(arms.n1, arms.n2);
       }
       words = `the given sizes, the power curve's and the effect curve`;
-      parts.push({ count: POWER_CURVE_EVALUATIONS, msEach: NORMAL_POWER_MS, what: "evaluations of the normal power beside it" });
+      normalEvaluations = POWER_CURVE_EVALUATIONS;
     }
-    parts.unshift({ count: terms, msEach: MS_PER_FISHER_TERM, what: `terms of Fisher's exact power (${words})` });
-    return workEstimate(parts, input.solveFor === "sample-size" ? [] : ["n1", "n2"]);
+    return workEstimate([
+      { count: terms, msEach: MS_PER_FISHER_TERM, what: `terms of Fisher's exact power (${words})` },
+      { count: normalEvaluations, msEach: NORMAL_POWER_MS, what: "evaluations of the normal power beside it" },
+    ], input.solveFor === "sample-size" ? [] : ["n1", "n2"]);
   }
   const count = input.solveFor === "difference"
     ? DETECTABLE_PROPORTION_EVALUATIONS + 1 + POWER_CURVE_EVALUATIONS
