@@ -107,8 +107,8 @@ function smallestWorkingMaxN(input: SimonTwoStageInput): number | null {
  * Constants from `npm run bench designs` (the simon-two-stage heaviest cases,
  * median CPU over 3 runs while other work shared the machine): the search up
  * to 300 whose only design has 300 patients sums 0.045·300⁴ terms in 550 ms,
- * 1.5 ns a term (an empty search up to 299 continued to 300, 0.048·300⁴
- * terms, took 0.6 to 0.9 s); 1.8 ns is taken. A pair of distributions of 300
+ * 1.5 ns a term (an empty search up to 299 continued to 300 sums as many
+ * terms in about the same time); 1.8 ns is taken. A pair of distributions of 300
  * patients, or an evaluation at one rate, took under 10 µs.
  */
 const MS_PER_SEARCH_TERM = 1.8e-6;

@@ -7,9 +7,10 @@ import { describe, expect, it } from "vitest";
 import { expectClose, loadFixture } from "../../support/fixtures.js";
 import { InfeasibleDesignError } from "../../../src/designs/design.js";
 import { simonTwoStage } from "../../../src/designs/simonTwoStage.js";
-import { searchSimon, surelyFindsDesign } from "../../../src/designs/shared/simonSearch.js";
+import { searchCanSucceed, searchSimon, surelyFindsDesign } from "../../../src/designs/shared/simonSearch.js";
 import { evaluateTwoStage, summarizeTwoStage, type TwoStageRule } from "../../../src/designs/shared/twoStage.js";
 import { createRandom } from "../../../src/stats/random.js";
+import { budgetCases } from "../../support/budgetCases/index.js";
 
 const parse = (inputs: Record<string, unknown>) => simonTwoStage.input.parse(inputs);
 
@@ -254,6 +255,13 @@ describe("compute budget estimate", () => {
       const target = { ...t, p1: t.p0 + gap };
       return !surelyFindsDesign(target) || searchSimon(target) !== null;
     }), { seed: 1989, numRuns: 400 });
+  });
+
+  it("the empty-search budget case runs the search it is named for: the power ceiling on 299 patients does not stop it, and no design is certain", () => {
+    const empty = budgetCases["simon-two-stage"]!.heaviest.find((c) => c.name.startsWith("empty search"))!;
+    const targets = parse(empty.inputs);
+    expect(searchCanSucceed(targets)).toBe(true);
+    expect(surelyFindsDesign(targets)).toBe(false);
   });
 
   it("counts a search up to maxN when a design within it is certain, up to 300 when not, and none when no rule on 300 patients reaches the power", () => {
