@@ -6,7 +6,7 @@
  */
 import { binomialPmfArray } from "../../stats/binomial.js";
 
-/** Largest total size of a two-stage rule the service searches or evaluates (a search there takes up to about 0.6 s: simon-two-stage budget cases). */
+/** Largest total size of a two-stage rule the service searches or evaluates (a search there takes 0.5 to 0.9 s of CPU: simon-two-stage budget cases). */
 export const TWO_STAGE_MAX_N = 300;
 
 export interface TwoStageRule {
