@@ -29,9 +29,8 @@ export function computeFrozen(design: AnyDesign, inputs: unknown): unknown {
   } catch (error) {
     if (error instanceof OverBudgetError) throw overBudgetProblem(error);
     if (error instanceof InfeasibleDesignError) {
-      const field = error.details.field;
       throw new ProblemError(422, "infeasible-design", "No design meets these constraints", error.message,
-        { ...error.details, errors: typeof field === "string" ? [inputError(field, error.message)] : [] });
+        { ...error.details, errors: [inputError(error.details.field, error.message)] });
     }
     throw error;
   }

@@ -147,7 +147,7 @@ export function costCrossover2x2(input: Crossover2x2Input): WorkEstimate {
 /** The smallest difference detected with the target power at the given sequence sizes, to 1e-10 standard errors. */
 function detectableDifference(input: Crossover2x2Input, sequences: ArmSizes, nullDelta: number): number {
   const se = crossoverStandardError(input.withinSubjectSd, sequences);
-  return detectableEffect((d) => crossoverPower(input, input.withinSubjectSd, sequences, d), input.power, nullDelta, nullDelta + 50 * se, se);
+  return detectableEffect((d) => crossoverPower(input, input.withinSubjectSd, sequences, d), input.power, nullDelta, nullDelta + 50 * se, "n1", se);
 }
 
 export function computeCrossover2x2(input: Crossover2x2Input): Crossover2x2Result {

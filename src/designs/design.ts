@@ -58,11 +58,14 @@ export interface WorkEstimate {
   reduce: string[];
 }
 
-/** Valid inputs for which no design meets the constraints within the bounds (HTTP 422). */
+/**
+ * Valid inputs for which no design meets the constraints within the bounds
+ * (HTTP 422). `field` names the input to change, which the 422 points to.
+ */
 export class InfeasibleDesignError extends Error {
   constructor(
     message: string,
-    readonly details: Record<string, unknown> = {},
+    readonly details: { field: string } & Record<string, unknown>,
   ) {
     super(message);
     this.name = "InfeasibleDesignError";

@@ -262,7 +262,7 @@ function requiredPerCell(powerAt: (perCell: number) => number, target: number, f
  */
 function detectableMeansEffect(input: Factorial2x2Input, perCell: number, level: number): number {
   const se = input.sd! / Math.sqrt(perCell);
-  return detectableEffect((e) => marginMeansPower(input, e, perCell, level), input.power, 0, 50 * se, se);
+  return detectableEffect((e) => marginMeansPower(input, e, perCell, level), input.power, 0, 50 * se, "nPerCell", se);
 }
 
 const effectField = (input: Factorial2x2Input, factor: Factor): string => (input.outcome === "means" ? `effect${factor}` : `rate${factor}`);

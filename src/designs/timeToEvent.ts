@@ -257,7 +257,7 @@ function detectableHazardRatio(input: TimeToEventInput, events: number): number 
       { bound: SMALLEST_HAZARD_RATIO, field: "events" },
     );
   }
-  return Math.exp(-detectableEffect(powerAtLogEffect, input.power, 1e-12, largest));
+  return Math.exp(-detectableEffect(powerAtLogEffect, input.power, 1e-12, largest, "events"));
 }
 
 /** Calendar times for the chart: a fine grid with accrual end and the analysis included. */

@@ -223,10 +223,10 @@ function solveDifference(input: TwoMeansInput, arms: ArmSizes): number {
     if (powerAtZero < target) {
       throw new InfeasibleDesignError(`Even with no true difference, these arm sizes give power ${powerAtZero.toFixed(3)} to show equivalence, below the target ${target}.`, { field: "n1" });
     }
-    return m - detectableEffect((e) => twoMeansPower(input, arms, m - e), target, 0, m, se);
+    return m - detectableEffect((e) => twoMeansPower(input, arms, m - e), target, 0, m, "n1", se);
   }
   const lo = input.hypothesis === "non-inferiority" ? -input.margin! : 0;
-  return detectableEffect((e) => twoMeansPower(input, arms, e), target, lo, ceiling, se);
+  return detectableEffect((e) => twoMeansPower(input, arms, e), target, lo, ceiling, "n1", se);
 }
 
 const fmt = (x: number, d = 3): string => x.toFixed(d);

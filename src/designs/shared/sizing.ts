@@ -92,11 +92,12 @@ export function smallestSampleSize(search: SizeSearch): ArmSizes & { power: numb
  * effect on [lo, hi], resolved to 1e-10 × `scale`. Designs whose effect is in
  * outcome units pass one standard error as the scale, so the answer is as
  * precise whatever the units (an absolute 1e-10 is coarse when the standard
- * deviation itself is 1e-9). Throws when even the largest effect is not detectable.
+ * deviation itself is 1e-9). Throws when even the largest effect is not
+ * detectable, naming `sizeField`, the input whose increase would detect it.
  */
-export function detectableEffect(powerAtEffect: (effect: number) => number, target: number, lo: number, hi: number, scale = 1): number {
+export function detectableEffect(powerAtEffect: (effect: number) => number, target: number, lo: number, hi: number, sizeField: string, scale = 1): number {
   if (powerAtEffect(hi) < target) {
-    throw new InfeasibleDesignError(`Even an effect of ${hi} is not detected with power ${target} at this size.`, { bound: hi });
+    throw new InfeasibleDesignError(`Even an effect of ${hi} is not detected with power ${target} at this size.`, { bound: hi, field: sizeField });
   }
   if (powerAtEffect(lo) >= target) return lo;
   return findRoot((e) => powerAtEffect(e) - target, lo, hi, { tolerance: DETECTABLE_EFFECT_RESOLUTION * scale });

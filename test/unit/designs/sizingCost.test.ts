@@ -49,7 +49,7 @@ describe("curves and root searches", () => {
       const arms = { n1: n, n2: n };
       const se = sd * Math.sqrt(2 / n);
       let evaluations = 0;
-      detectableEffect((e) => { evaluations++; return normalPower(e / sd)(arms); }, target, 0, 50 * se, se);
+      detectableEffect((e) => { evaluations++; return normalPower(e / sd)(arms); }, target, 0, 50 * se, "n1", se);
       expect(evaluations, JSON.stringify({ sd, n, target })).toBeLessThanOrEqual(DETECTABLE_EFFECT_EVALUATIONS);
     }
   });
