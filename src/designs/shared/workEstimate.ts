@@ -19,7 +19,7 @@ export const SAFETY_FACTOR = 1.5;
  * and code paths a running Worker has not yet taken for this kind of input (a
  * first run took up to 3.6 ms where later runs of the same calculation took
  * 0.1 ms). The very first calculation of a design in a fresh Worker also
- * compiles its code, 20 to 150 ms here: a one-off that the budget's margin
+ * compiles its code, 20 to 300 ms here: a one-off that the budget's margin
  * below the Worker's CPU limit absorbs, not part of every estimate.
  */
 export const FIXED_MS = 4;
