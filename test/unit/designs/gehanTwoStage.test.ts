@@ -1,9 +1,11 @@
-// Gehan's two-stage design (Gehan 1961) against common practice and a fixture
-// from R 4.2 (stats::qbeta for the exact upper confidence limit;
+// Gehan's two-stage design (Gehan 1961) against common practice and fixtures
+// from R 4.2 (stats::qbeta for the exact upper confidence limit, dbinom for the
+// probabilities, sizes and standard errors from their definitions;
 // test/fixtures/activity/generate.R).
 import { describe, expect, it } from "vitest";
 import { expectClose, loadFixture } from "../../support/fixtures.js";
 import { gehanTwoStage } from "../../../src/designs/gehanTwoStage.js";
+import type { Table } from "../../../src/report/document.js";
 import { createRandom } from "../../../src/stats/random.js";
 
 const parse = (inputs: Record<string, unknown>) => gehanTwoStage.input.parse(inputs);
@@ -54,6 +56,62 @@ describe("Gehan's two-stage design", () => {
     }
     const exact = result.probabilityOfEarlyTerminationAtP1;
     expect(Math.abs(stops / trials - exact)).toBeLessThan(4 * Math.sqrt((exact * (1 - exact)) / trials));
+  });
+
+  type GehanDesign = { p1: number; beta: number; targetSE: number; level: number; rateForStandardError: string };
+  const computeDesign = (d: GehanDesign) => {
+    const input = parse({ p1: d.p1, beta: d.beta, targetSE: d.targetSE, confidenceLevel: d.level, rateForStandardError: d.rateForStandardError });
+    const result = gehanTwoStage.compute(input);
+    const table = gehanTwoStage.document(input, result).flatMap((s) => s.blocks)
+      .flatMap((b) => (b.kind === "table" && b.table.id === "stage-two-sizes" ? [b.table] : []))[0] as Table;
+    return { result, table };
+  };
+  const cell = (table: Table, x1: number, key: string) => {
+    const row = table.rows.find((r) => r[0] === x1)!;
+    return row[table.columns.findIndex((c) => c.key === key)];
+  };
+
+  it("the P(x1 | p1) column, the total sizes and the standard-error column match R (dbinom; √(p(1 − p)/total) at the rate used), in the result and in the printed table", () => {
+    const f = loadFixture<GehanDesign & { n1: number; x1: number; probabilityAtP1: number; rateForSE: number; totalSize: number; standardError: number }>("activity/gehan-rows.json");
+    expect(new Set(f.cases.map((c) => c.rateForStandardError))).toEqual(new Set(["upper-confidence-limit", "stage-one-proportion"]));
+    for (const c of f.cases) {
+      const { result, table } = computeDesign(c);
+      expect(result.n1, JSON.stringify(c)).toBe(c.n1);
+      expect(result.rows).toHaveLength(c.n1);
+      const row = result.rows.find((r) => r.stage1Responses === c.x1)!;
+      expect(row.totalSize, JSON.stringify(c)).toBe(c.totalSize);
+      expectClose(row.probabilityAtP1, c.probabilityAtP1, f.tolerance, c);
+      expectClose(row.standardError, c.standardError, f.tolerance, c);
+      expect(cell(table, c.x1, "total"), JSON.stringify(c)).toBe(c.totalSize);
+      expectClose(cell(table, c.x1, "prob") as number, c.probabilityAtP1, f.tolerance, c);
+      expectClose(cell(table, c.x1, "se") as number, c.standardError, f.tolerance, c);
+    }
+  });
+
+  it("the expected total size at p1, the largest total size and P(no response) match R (Σ dbinom(x1, n1, p1) × total)", () => {
+    const f = loadFixture<GehanDesign & { n1: number; probabilityNoResponse: number; largestTotalSize: number; expectedSampleSizeAtP1: number }>("activity/gehan-summary.json");
+    for (const c of f.cases) {
+      const { result, table } = computeDesign(c);
+      expect(result.n1, JSON.stringify(c)).toBe(c.n1);
+      expect(result.largestTotalSize, JSON.stringify(c)).toBe(c.largestTotalSize);
+      expectClose(result.expectedSampleSizeAtP1, c.expectedSampleSizeAtP1, f.tolerance, c);
+      expectClose(result.probabilityOfEarlyTerminationAtP1, c.probabilityNoResponse, f.tolerance, c);
+      expectClose(cell(table, 0, "prob") as number, c.probabilityNoResponse, f.tolerance, c);
+    }
+  });
+
+  it("the stopping curve matches R's dbinom(0, n1, p) at p = 0, 0.02, …, 1", () => {
+    const f = loadFixture<{ p1: number; beta: number; n1: number; rate: number; probability: number }>("activity/gehan-stopping-curve.json");
+    const byDesign = new Map<string, typeof f.cases>();
+    for (const c of f.cases) byDesign.set(`${c.p1}/${c.beta}`, [...(byDesign.get(`${c.p1}/${c.beta}`) ?? []), c]);
+    expect(byDesign.size).toBe(4);
+    for (const cases of byDesign.values()) {
+      const { p1, beta, n1 } = cases[0]!;
+      const result = gehanTwoStage.compute(parse({ p1, beta }));
+      expect(result.n1).toBe(n1);
+      expect(result.stoppingCurve.map(([rate]) => rate)).toEqual(cases.map((c) => c.rate));
+      cases.forEach((c, i) => expectClose(result.stoppingCurve[i]![1], c.probability, f.tolerance, c));
+    }
   });
 
   it("names the bad field", () => {
