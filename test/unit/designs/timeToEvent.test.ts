@@ -88,6 +88,65 @@ describe("time-to-event: R base stats fixtures", () => {
   });
 });
 
+describe("time-to-event: the printed hazards, event probability, expected events and enrolment (R base stats and the uniform-accrual formula)", () => {
+  type Details = {
+    method: string; controlMedianYears: number; hazardRatio?: number; experimentalMedianYears?: number; accrualYears: number; followUpYears: number;
+    annualLossToFollowUp: number; alpha: number; power: number; sides: 1 | 2; allocationRatio: number; events: number; n1: number; n2: number;
+    controlHazard: number; experimentalHazard: number; lossHazard: number; eventProbabilityOverall: number; expectedEventsAtEnd: number;
+  };
+  const f = loadFixture<Details>("time-to-event/design-details.json");
+  const designs = f.cases.map((c) => {
+    const { events, n1, n2, controlHazard, experimentalHazard, lossHazard, eventProbabilityOverall, expectedEventsAtEnd, ...inputs } = c;
+    return { c, inputs, result: solve(inputs) };
+  });
+
+  it("the fixture covers both ways of giving the effect and an experimental arm rounded up past k × n1", () => {
+    expect(f.cases.some((c) => c.experimentalMedianYears !== undefined)).toBe(true);
+    expect(f.cases.some((c) => c.hazardRatio !== undefined)).toBe(true);
+    expect(f.cases.some((c) => c.n2 > c.allocationRatio * c.n1)).toBe(true);
+  });
+  it("each arm's hazard and the loss hazard match log(2)/median and log(1/(1 − annual loss)) from R", () => {
+    for (const { c, result } of designs) {
+      expect([result.events, result.n1, result.n2], JSON.stringify(c)).toEqual([c.events, c.n1, c.n2]);
+      expectClose(result.controlHazard, c.controlHazard, f.tolerance, c);
+      expectClose(result.experimentalHazard, c.experimentalHazard, f.tolerance, c);
+      expectClose(result.lossHazard, c.lossHazard, f.tolerance, c);
+    }
+  });
+  it("the overall event probability (P1 + k P2)/(1 + k) and the expected events at the end, n1 P1 + n2 P2, match R integrate()", () => {
+    for (const { c, result } of designs) {
+      expectClose(result.eventProbabilityOverall, c.eventProbabilityOverall, f.tolerance, c);
+      expectClose(result.expectedEventsAtEnd, c.expectedEventsAtEnd, f.tolerance, c, "relative");
+    }
+  });
+  it("the arms table prints those numbers in its total row", () => {
+    for (const { c, inputs, result } of designs) {
+      const table = timeToEvent.document(parse(inputs), result).flatMap((s) => s.blocks)
+        .flatMap((b) => (b.kind === "table" && b.table.id === "arms" ? [b.table] : []))[0]!;
+      const total = table.rows.find((r) => r[0] === "Total")!;
+      const column = (key: string) => table.columns.findIndex((col) => col.key === key);
+      expect(total[column("enrolled")], JSON.stringify(c)).toBe(c.n1 + c.n2);
+      expectClose(total[column("probability")] as number, c.eventProbabilityOverall, f.tolerance, c);
+      expectClose(total[column("events")] as number, c.expectedEventsAtEnd, f.tolerance, c, "relative");
+    }
+  });
+  it("the enrolment chart follows uniform accrual, N × min(1, t/R) (Lachin & Foulkes 1986: entry uniform over the accrual period), with N from R", () => {
+    for (const { c, inputs, result } of designs) {
+      const points = result.enrolmentOverTime;
+      const times = points.map(([t]) => t);
+      expect(times[0]).toBe(0);
+      expect(times[times.length - 1]).toBe(c.accrualYears + c.followUpYears);
+      expect(times).toContain(c.accrualYears);
+      for (const [t, enrolled] of points) {
+        expectClose(enrolled, (c.n1 + c.n2) * Math.min(1, t / c.accrualYears), 1e-12, { ...c, t }, "relative");
+      }
+      const chart = timeToEvent.document(parse(inputs), result).flatMap((s) => s.blocks)
+        .flatMap((b) => (b.kind === "chart" && b.chart.id === "events-over-time" ? [b.chart] : []))[0]!;
+      expect(chart.series.find((s) => s.name === "Enrolled")!.points).toEqual(points);
+    }
+  });
+});
+
 describe("time-to-event: solving for power and for the hazard ratio", () => {
   it("the detectable hazard ratio with the required events has the target power, and inverts the event count", () => {
     const r = solve({ ...setting, solveFor: "hazard-ratio", events: 380 });
