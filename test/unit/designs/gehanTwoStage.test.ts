@@ -5,7 +5,7 @@
 import { describe, expect, it } from "vitest";
 import { expectClose, loadFixture } from "../../support/fixtures.js";
 import { gehanTwoStage } from "../../../src/designs/gehanTwoStage.js";
-import type { Table } from "../../../src/report/document.js";
+import { documentTable, tableCell } from "../../support/documentBlocks.js";
 import { createRandom } from "../../../src/stats/random.js";
 
 const parse = (inputs: Record<string, unknown>) => gehanTwoStage.input.parse(inputs);
@@ -62,13 +62,7 @@ describe("Gehan's two-stage design", () => {
   const computeDesign = (d: GehanDesign) => {
     const input = parse({ p1: d.p1, beta: d.beta, targetSE: d.targetSE, confidenceLevel: d.level, rateForStandardError: d.rateForStandardError });
     const result = gehanTwoStage.compute(input);
-    const table = gehanTwoStage.document(input, result).flatMap((s) => s.blocks)
-      .flatMap((b) => (b.kind === "table" && b.table.id === "stage-two-sizes" ? [b.table] : []))[0] as Table;
-    return { result, table };
-  };
-  const cell = (table: Table, x1: number, key: string) => {
-    const row = table.rows.find((r) => r[0] === x1)!;
-    return row[table.columns.findIndex((c) => c.key === key)];
+    return { result, table: documentTable(gehanTwoStage.document(input, result), "stage-two-sizes") };
   };
 
   it("the P(x1 | p1) column, the total sizes and the standard-error column match R (dbinom; √(p(1 − p)/total) at the rate used), in the result and in the printed table", () => {
@@ -82,9 +76,9 @@ describe("Gehan's two-stage design", () => {
       expect(row.totalSize, JSON.stringify(c)).toBe(c.totalSize);
       expectClose(row.probabilityAtP1, c.probabilityAtP1, f.tolerance, c);
       expectClose(row.standardError, c.standardError, f.tolerance, c);
-      expect(cell(table, c.x1, "total"), JSON.stringify(c)).toBe(c.totalSize);
-      expectClose(cell(table, c.x1, "prob") as number, c.probabilityAtP1, f.tolerance, c);
-      expectClose(cell(table, c.x1, "se") as number, c.standardError, f.tolerance, c);
+      expect(tableCell(table, c.x1, "total"), JSON.stringify(c)).toBe(c.totalSize);
+      expectClose(tableCell(table, c.x1, "prob") as number, c.probabilityAtP1, f.tolerance, c);
+      expectClose(tableCell(table, c.x1, "se") as number, c.standardError, f.tolerance, c);
     }
   });
 
@@ -96,7 +90,7 @@ describe("Gehan's two-stage design", () => {
       expect(result.largestTotalSize, JSON.stringify(c)).toBe(c.largestTotalSize);
       expectClose(result.expectedSampleSizeAtP1, c.expectedSampleSizeAtP1, f.tolerance, c);
       expectClose(result.probabilityOfEarlyTerminationAtP1, c.probabilityNoResponse, f.tolerance, c);
-      expectClose(cell(table, 0, "prob") as number, c.probabilityNoResponse, f.tolerance, c);
+      expectClose(tableCell(table, 0, "prob") as number, c.probabilityNoResponse, f.tolerance, c);
     }
   });
 

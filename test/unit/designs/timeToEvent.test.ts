@@ -2,6 +2,7 @@
 // (test/fixtures/time-to-event/generate.R).
 import { describe, expect, it } from "vitest";
 import { expectClose, loadFixture } from "../../support/fixtures.js";
+import { documentChart, documentTable, tableCell } from "../../support/documentBlocks.js";
 import { timeToEvent, timeToEventPower } from "../../../src/designs/timeToEvent.js";
 import { InfeasibleDesignError } from "../../../src/designs/design.js";
 import { eventProbability, expectedEventFraction } from "../../../src/stats/eventProbability.js";
@@ -121,13 +122,10 @@ describe("time-to-event: the printed hazards, event probability, expected events
   });
   it("the arms table prints those numbers in its total row", () => {
     for (const { c, inputs, result } of designs) {
-      const table = timeToEvent.document(parse(inputs), result).flatMap((s) => s.blocks)
-        .flatMap((b) => (b.kind === "table" && b.table.id === "arms" ? [b.table] : []))[0]!;
-      const total = table.rows.find((r) => r[0] === "Total")!;
-      const column = (key: string) => table.columns.findIndex((col) => col.key === key);
-      expect(total[column("enrolled")], JSON.stringify(c)).toBe(c.n1 + c.n2);
-      expectClose(total[column("probability")] as number, c.eventProbabilityOverall, f.tolerance, c);
-      expectClose(total[column("events")] as number, c.expectedEventsAtEnd, f.tolerance, c, "relative");
+      const table = documentTable(timeToEvent.document(parse(inputs), result), "arms");
+      expect(tableCell(table, "Total", "enrolled"), JSON.stringify(c)).toBe(c.n1 + c.n2);
+      expectClose(tableCell(table, "Total", "probability") as number, c.eventProbabilityOverall, f.tolerance, c);
+      expectClose(tableCell(table, "Total", "events") as number, c.expectedEventsAtEnd, f.tolerance, c, "relative");
     }
   });
   it("the enrolment chart follows uniform accrual, N × min(1, t/R) (Lachin & Foulkes 1986: entry uniform over the accrual period), with N from R", () => {
@@ -140,8 +138,7 @@ describe("time-to-event: the printed hazards, event probability, expected events
       for (const [t, enrolled] of points) {
         expectClose(enrolled, (c.n1 + c.n2) * Math.min(1, t / c.accrualYears), 1e-12, { ...c, t }, "relative");
       }
-      const chart = timeToEvent.document(parse(inputs), result).flatMap((s) => s.blocks)
-        .flatMap((b) => (b.kind === "chart" && b.chart.id === "events-over-time" ? [b.chart] : []))[0]!;
+      const chart = documentChart(timeToEvent.document(parse(inputs), result), "events-over-time");
       expect(chart.series.find((s) => s.name === "Enrolled")!.points).toEqual(points);
     }
   });
