@@ -2,6 +2,7 @@
 // (test/fixtures/two-means/generate.R).
 import { describe, expect, it } from "vitest";
 import { expectClose, loadFixture } from "../../support/fixtures.js";
+import { documentFact } from "../../support/documentBlocks.js";
 import { twoMeans, twoMeansPower } from "../../../src/designs/twoMeans.js";
 import { InfeasibleDesignError } from "../../../src/designs/design.js";
 
@@ -75,6 +76,37 @@ describe("two-means: R stats::power.t.test and pt(ncp) fixtures", () => {
       const r = solve({ hypothesis: "equivalence", sides: 1, delta: c.delta, margin: c.margin, sd: c.sd, alpha: c.alpha, power: c.power });
       expect(r.n1, JSON.stringify(c)).toBe(c.n);
       expectClose(r.power, c.achievedPower!, f.tolerance, c);
+    }
+  });
+});
+
+describe("two-means: the printed critical value, degrees of freedom and standardized effect (R qt, qnorm, power.t.test)", () => {
+  it("critical value and degrees of freedom for every hypothesis and both methods, at given arms and at power.t.test's sizes", () => {
+    const f = loadFixture<{ solveFor: string; hypothesis: string; sides: 1 | 2; alpha: number; method: string; delta: number; sd: number; margin?: number; power?: number; n1: number; n2: number; criticalValue: number; degreesOfFreedom: number | null; standardizedEffect: number }>("two-means/critical-values.json");
+    expect(new Set(f.cases.map((c) => c.hypothesis))).toEqual(new Set(["superiority", "non-inferiority", "equivalence"]));
+    for (const c of f.cases) {
+      const { criticalValue, degreesOfFreedom, standardizedEffect, n1, n2, ...inputs } = c;
+      const input = twoMeans.input.parse(c.solveFor === "power" ? { ...inputs, n1, n2 } : inputs);
+      const r = twoMeans.compute(input);
+      expect([r.n1, r.n2], JSON.stringify(c)).toEqual([c.n1, c.n2]);
+      expectClose(r.criticalValue, criticalValue, f.tolerance, c, "relative");
+      expect(r.degreesOfFreedom, JSON.stringify(c)).toBe(degreesOfFreedom);
+      expectClose(r.standardizedEffect, standardizedEffect, f.tolerance, c, "relative");
+      const fact = documentFact(twoMeans.document(input, r), "Critical value")!;
+      expectClose(fact.value as number, criticalValue, f.tolerance, c, "relative");
+      expect(fact.note, JSON.stringify(c)).toBe(degreesOfFreedom === null ? "standard normal" : `t on ${degreesOfFreedom} degrees of freedom`);
+    }
+  });
+  it("the detectable difference, its standardized effect and the critical value match power.t.test(delta = NULL)", () => {
+    const f = loadFixture<{ n: number; sd: number; alpha: number; power: number; sides: 1 | 2; delta: number; standardizedEffect: number; criticalValue: number }>("two-means/detectable-difference.json");
+    for (const c of f.cases) {
+      const input = twoMeans.input.parse({ solveFor: "difference", sd: c.sd, alpha: c.alpha, power: c.power, sides: c.sides, n1: c.n, n2: c.n });
+      const r = twoMeans.compute(input);
+      expectClose(r.delta, c.delta, f.tolerance, c, "relative");
+      expectClose(r.standardizedEffect, c.standardizedEffect, f.tolerance, c, "relative");
+      expectClose(documentFact(twoMeans.document(input, r), "Standardized effect (δ/σ)")!.value as number, c.standardizedEffect, f.tolerance, c, "relative");
+      expectClose(r.criticalValue, c.criticalValue, f.tolerance, c, "relative");
+      expect(r.degreesOfFreedom).toBe(2 * c.n - 2);
     }
   });
 });
