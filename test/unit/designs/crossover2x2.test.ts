@@ -3,6 +3,7 @@
 // the normal-theory formula n = 2σw²(z_{1-α/2} + z_{1-β})²/δ² (Julious 2004, §4.1).
 import { describe, expect, it } from "vitest";
 import { expectClose, loadFixture } from "../../support/fixtures.js";
+import { documentFact } from "../../support/documentBlocks.js";
 import { schemaIssues } from "../../support/validation.js";
 import { InfeasibleDesignError } from "../../../src/designs/design.js";
 import { crossover2x2, crossoverPower, crossoverStandardError } from "../../../src/designs/crossover2x2.js";
@@ -27,6 +28,26 @@ describe("exact t against R pt with ncp", () => {
       const r = compute({ delta: c.ratio, withinSubjectSd: 1, alpha: c.alpha, power: c.power, sides: c.sides });
       expect([r.n1, r.n2], JSON.stringify(c)).toEqual([c.perSequence, c.perSequence]);
       expectClose(r.power, c.powerAtSize, f.tolerance, c);
+    }
+  });
+});
+
+describe("the printed critical value and its degrees of freedom against R qt and qnorm", () => {
+  it("at given sequence sizes for each hypothesis and method, and at the balanced sizes R finds", () => {
+    const f = loadFixture<{ solveFor: "power" | "sample-size"; hypothesis: string; sides: 1 | 2; alpha: number; method: string; margin: number; n1: number; n2: number; criticalValue: number; degreesOfFreedom: number | null; ratio?: number; power?: number }>("crossover-2x2/critical-values.json");
+    expect(new Set(f.cases.map((c) => `${c.solveFor} ${c.method} ${c.hypothesis}`)).size).toBe(5);
+    for (const c of f.cases) {
+      const test = { hypothesis: c.hypothesis, sides: c.sides, alpha: c.alpha, method: c.method, ...(c.margin > 0 ? { margin: c.margin } : {}) };
+      const input = parse(c.solveFor === "power"
+        ? { ...test, solveFor: "power", n1: c.n1, n2: c.n2, delta: 1, withinSubjectSd: 2 }
+        : { ...test, delta: c.ratio, withinSubjectSd: 1, power: c.power });
+      const r = crossover2x2.compute(input);
+      expect([r.n1, r.n2], JSON.stringify(c)).toEqual([c.n1, c.n2]);
+      expectClose(r.criticalValue, c.criticalValue, f.tolerance, c, "relative");
+      expect(r.degreesOfFreedom, JSON.stringify(c)).toBe(c.degreesOfFreedom);
+      const fact = documentFact(crossover2x2.document(input, r), "Critical value")!;
+      expectClose(fact.value as number, c.criticalValue, f.tolerance, c, "relative");
+      expect(fact.note, JSON.stringify(c)).toBe(c.degreesOfFreedom === null ? "standard normal" : `t on ${c.degreesOfFreedom} degrees of freedom`);
     }
   });
 });
