@@ -3,6 +3,7 @@
 // a handbook value, and a seeded Monte Carlo of Fisher's exact test.
 import { describe, expect, it } from "vitest";
 import { expectClose, loadFixture } from "../../support/fixtures.js";
+import { documentChart, documentFact, documentTable, tableCell } from "../../support/documentBlocks.js";
 import { schemaIssues } from "../../support/validation.js";
 import { InfeasibleDesignError } from "../../../src/designs/design.js";
 import { EXACT_SEARCH_MAX_PER_ARM, twoProportions, twoProportionsDesignPower } from "../../../src/designs/twoProportions.js";
@@ -171,6 +172,74 @@ describe("exact sample-size scan", () => {
       expect(error).toBeInstanceOf(InfeasibleDesignError);
       expect((error as InfeasibleDesignError).details.bound).toBe(EXACT_SEARCH_MAX_PER_ARM);
       expect((error as Error).message).toContain(String(EXACT_SEARCH_MAX_PER_ARM));
+    }
+  });
+});
+
+describe("exact sample-size search, its power curve and the normal curve beside it, against an R scan (dhyper and dbinom enumeration, power.prop.test)", () => {
+  type Design = { p1: number; p2: number; betterWhen: string; alpha: number; sides: 1 | 2; power: number; allocationRatio: number };
+  const search = loadFixture<Design & { firstN1: number; firstN2: number; firstPower: number; stableN1: number | null; stableN2: number | null; stablePower: number | null; boundN1: number }>("two-proportions/exact-search.json");
+  const scan = loadFixture<Design & { n1: number; n2: number; exactPower: number; normalPower: number }>("two-proportions/exact-scan.json");
+  const designOf = (c: Design) => ({ p1: c.p1, p2: c.p2, betterWhen: c.betterWhen, alpha: c.alpha, sides: c.sides, power: c.power, allocationRatio: c.allocationRatio, method: "fisher-exact" });
+  const computed = search.cases.map((c) => {
+    const input = parse(designOf(c));
+    const result = twoProportions.compute(input);
+    const rows = scan.cases.filter((s) => JSON.stringify(designOf(s)) === JSON.stringify(designOf(c)));
+    return { c, input, result, rows };
+  });
+
+  it("covers a saw-tooth (the stable size past the first), unequal allocation both ways and an event outcome", () => {
+    expect(search.cases.some((c) => c.stableN1 !== null && c.stableN1 > c.firstN1)).toBe(true);
+    expect(search.cases.some((c) => c.allocationRatio > 1) && search.cases.some((c) => c.allocationRatio < 1)).toBe(true);
+    expect(search.cases.some((c) => c.betterWhen === "lower")).toBe(true);
+  });
+  it("firstPower and stablePower, the sizes and the bound match, in the result and in the printed table", () => {
+    for (const { c, input, result } of computed) {
+      const e = result.exactSearch!;
+      expect([e.firstN1, e.firstN2, e.stableN1, e.stableN2, e.boundN1], JSON.stringify(c)).toEqual([c.firstN1, c.firstN2, c.stableN1, c.stableN2, c.boundN1]);
+      expectClose(e.firstPower, c.firstPower, search.tolerance, c);
+      expectClose(e.stablePower!, c.stablePower!, search.tolerance, c);
+      expectClose(result.power, c.stablePower!, search.tolerance, c);
+      const table = documentTable(twoProportions.document(input, result), "exact-search");
+      expectClose(tableCell(table, "Smallest reaching the target", "power") as number, c.firstPower, search.tolerance, c);
+      expectClose(tableCell(table, `Smallest from which every size up to ${c.boundN1} control reaches it`, "power") as number, c.stablePower!, search.tolerance, c);
+    }
+  });
+  it("every point of the exact power curve and of the normal-approximation curve beside it matches R at its sizes", () => {
+    for (const { c, input, result, rows } of computed) {
+      expect(rows.at(-1)!.n1, JSON.stringify(c)).toBe(c.boundN1);
+      const byTotal = new Map(rows.map((r) => [r.n1 + r.n2, r]));
+      const normal = result.normalPowerCurve!;
+      expect(normal.map(([total]) => total)).toEqual(result.powerCurve.map(([total]) => total));
+      expect(result.powerCurve.at(-1)![0]).toBe(c.boundN1 + rows.at(-1)!.n2);
+      result.powerCurve.forEach(([total, power], i) => {
+        const row = byTotal.get(total)!;
+        expect(row, `${JSON.stringify(c)} total ${total}`).toBeDefined();
+        if (i > 0) expect(row.n1).toBe(byTotal.get(result.powerCurve[i - 1]![0])!.n1 + 1);
+        expectClose(power, row.exactPower, scan.tolerance, row);
+        expectClose(normal[i]![1], row.normalPower, scan.tolerance, row);
+      });
+      const chart = documentChart(twoProportions.document(input, result), "power-curve");
+      expect(chart.series.find((s) => s.name === "Normal approximation")!.points).toEqual(normal);
+    }
+  });
+});
+
+describe("the printed critical value against R qnorm", () => {
+  it("two-sided, one-sided and non-inferiority for both normal methods; none for Fisher's exact test", () => {
+    const f = loadFixture<{ hypothesis: string; sides: 1 | 2; alpha: number; method: string; margin?: number; criticalValue: number | null }>("two-proportions/critical-values.json");
+    for (const c of f.cases) {
+      const { criticalValue, ...test } = c;
+      const input = parse({ ...test, solveFor: "power", p1: 0.6, p2: 0.7, n1: 40, n2: 50 });
+      const r = twoProportions.compute(input);
+      const fact = documentFact(twoProportions.document(input, r), "Critical value");
+      if (criticalValue === null) {
+        expect(r.criticalValue, JSON.stringify(c)).toBeNull();
+        expect(fact).toBeUndefined();
+        continue;
+      }
+      expectClose(r.criticalValue!, criticalValue, f.tolerance, c, "relative");
+      expectClose(fact!.value as number, criticalValue, f.tolerance, c, "relative");
     }
   });
 });
