@@ -2,6 +2,7 @@
 // (test/fixtures/factorial-2x2/generate.R).
 import { describe, expect, it } from "vitest";
 import { expectClose, loadFixture } from "../../support/fixtures.js";
+import { documentTable, tableCell } from "../../support/documentBlocks.js";
 import { factorial2x2 } from "../../../src/designs/factorial2x2.js";
 import { InfeasibleDesignError } from "../../../src/designs/design.js";
 
@@ -91,6 +92,65 @@ describe("factorial-2x2: R base stats fixtures", () => {
       const r = solve({ solveFor: "power", nPerCell: c.nPerCell, sd: 1, effectA: c.effectA, effectB: c.effectB, alpha: c.alpha, multiplicity: "holm" });
       expectClose(r.mainEffects[0]!.powerUnderHolm!, c.powerUnderHolmA, f.tolerance, c);
       expectClose(r.mainEffects[1]!.powerUnderHolm!, c.powerUnderHolmB, f.tolerance, c);
+    }
+  });
+});
+
+describe("factorial-2x2: the printed margin and cell rates and the interaction's spread (R, from the 2×2 table of cell rates)", () => {
+  type Rates = {
+    outcome: "proportions" | "means"; controlRate: number; rateA: number; rateB: number; interaction: number | null; sd: number;
+    marginAWithout: number; marginAWith: number; marginBWithout: number; marginBWith: number; effectA: number; effectB: number;
+    cellBothNoInteraction: number; cellBoth: number; interactionEffect: number; standardErrorPerRootCell: number;
+  };
+  const f = loadFixture<Rates>("factorial-2x2/rates.json");
+  const proportions = f.cases.filter((c) => c.outcome === "proportions");
+  const inputsOf = (c: Rates) => ({
+    outcome: "proportions", solveFor: "power", nPerCell: 100, controlRate: c.controlRate, rateA: c.rateA, rateB: c.rateB,
+    ...(c.interaction === null ? {} : { interaction: c.interaction }),
+  });
+
+  it("margin rates, main effects, cell rates under the interaction and standardErrorPerRootCell for proportions", () => {
+    expect(proportions.length).toBeGreaterThan(30);
+    for (const c of proportions) {
+      const r = solve(inputsOf(c));
+      const [a, b] = r.mainEffects;
+      const close = (actual: number, expected: number) => expectClose(actual, expected, f.tolerance, c);
+      close(a!.marginRates![0], c.marginAWithout);
+      close(a!.marginRates![1], c.marginAWith);
+      close(b!.marginRates![0], c.marginBWithout);
+      close(b!.marginRates![1], c.marginBWith);
+      close(a!.effect, c.effectA);
+      close(b!.effect, c.effectB);
+      const [neither, aAlone, bAlone, both] = r.interaction.cellRates!;
+      expect([neither, aAlone, bAlone], JSON.stringify(c)).toEqual([c.controlRate, c.rateA, c.rateB]);
+      close(both, c.cellBoth);
+      close(r.interaction.effect, c.interactionEffect);
+      close(r.interaction.standardErrorPerRootCell, c.standardErrorPerRootCell);
+    }
+  });
+  it("the cells table prints the no-interaction rates and the effects table the main effects and the interaction", () => {
+    for (const c of proportions) {
+      const input = parse(inputsOf(c));
+      const sections = factorial2x2.document(input, factorial2x2.compute(input));
+      const cells = documentTable(sections, "cells");
+      expect(tableCell(cells, "Neither", "rate")).toBe(c.controlRate);
+      expect(tableCell(cells, "A alone", "rate")).toBe(c.rateA);
+      expect(tableCell(cells, "B alone", "rate")).toBe(c.rateB);
+      expectClose(tableCell(cells, "A and B", "rate") as number, c.cellBothNoInteraction, f.tolerance, c);
+      const effects = documentTable(sections, "effects");
+      expectClose(tableCell(effects, "Main effect of A (margins)", "effect") as number, c.effectA, f.tolerance, c);
+      expectClose(tableCell(effects, "Main effect of B (margins)", "effect") as number, c.effectB, f.tolerance, c);
+      expectClose(tableCell(effects, "Interaction (AB − A) − (B − neither)", "effect") as number, c.interactionEffect, f.tolerance, c);
+    }
+  });
+  it("standardErrorPerRootCell for means is √(Σ c²) σ = 2σ", () => {
+    const means = f.cases.filter((c) => c.outcome === "means");
+    expect(means.length).toBeGreaterThan(0);
+    for (const c of means) {
+      const r = solve({ solveFor: "power", nPerCell: 20, sd: c.sd, effectA: c.sd, effectB: c.sd });
+      expectClose(r.interaction.standardErrorPerRootCell, c.standardErrorPerRootCell, f.tolerance, c);
+      expect(r.mainEffects[0]!.marginRates).toBeNull();
+      expect(r.interaction.cellRates).toBeNull();
     }
   });
 });
